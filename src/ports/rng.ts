@@ -1,9 +1,69 @@
 /**
  * @module rng
  * Randomness is injected: every draw in plumbline comes from an `Rng` made from a seed.
+ * The default generator is xoshiro128** (Blackman & Vigna 2018, "Scrambled linear pseudorandom
+ * number generators"), seeded through splitmix32, giving doubles with 53 random bits.
  */
 
 export interface Rng {
   /** A uniform double in [0, 1) with 53 random bits. */
   next(): number;
+}
+
+function splitmix32(state: number): () => number {
+  let s = state >>> 0;
+  return () => {
+    s = (s + 0x9e3779b9) >>> 0;
+    let z = s;
+    z = Math.imul(z ^ (z >>> 16), 0x85ebca6b) >>> 0;
+    z = Math.imul(z ^ (z >>> 13), 0xc2b2ae35) >>> 0;
+    return (z ^ (z >>> 16)) >>> 0;
+  };
+}
+
+/** A seeded xoshiro128** generator; the same seed gives the same sequence on every platform. */
+export function createSeededRng(seed: number): Rng {
+  const init = splitmix32(Math.trunc(seed) >>> 0);
+  let a = init();
+  let b = init();
+  let c = init();
+  let d = init();
+  if ((a | b | c | d) === 0) a = 1;
+  const next32 = (): number => {
+    const result = Math.imul(rotl(Math.imul(b, 5) >>> 0, 7), 9) >>> 0;
+    const t = (b << 9) >>> 0;
+    c ^= a;
+    d ^= b;
+    b ^= c;
+    a ^= d;
+    c ^= t;
+    d = rotl(d, 11);
+    return result;
+  };
+  return {
+    next(): number {
+      const hi = next32() >>> 5; // 27 bits
+      const lo = next32() >>> 6; // 26 bits
+      return (hi * 67108864 + lo) / 9007199254740992;
+    },
+  };
+}
+
+function rotl(x: number, k: number): number {
+  return ((x << k) | (x >>> (32 - k))) >>> 0;
+}
+
+/** FNV-1a (32-bit) of a string: used to derive default seeds from channel and time. */
+export function hashString32(text: string): number {
+  let h = 0x811c9dc5;
+  for (let i = 0; i < text.length; i++) {
+    h ^= text.charCodeAt(i);
+    h = Math.imul(h, 0x01000193) >>> 0;
+  }
+  return h >>> 0;
+}
+
+/** The default seed of DESIGN.md §4: derived from the channel and `until` (epoch ms). */
+export function deriveSeed(channel: string, untilMs: number): number {
+  return hashString32(`${channel}|${new Date(untilMs).toISOString()}`);
 }
