@@ -22,6 +22,7 @@ export type ErrorCode =
   | "STORE_FULL"
   | "STORE_UNAVAILABLE"
   | "STORE_BAD_URL"
+  | "STORE_NO_ID_KEY"
   | "CONFIG_INVALID";
 
 export class PlumblineError extends Error {
