@@ -1,0 +1,67 @@
+/**
+ * @module louvain-clusters
+ * Unnamed clusters for channels without group labels (DESIGN.md §4 step 9): the Louvain method
+ * (Blondel, Guillaume, Lambiotte & Lefebvre 2008, "Fast unfolding of communities in large
+ * networks", J. Stat. Mech. P10008; graphology-communities-louvain) on the undirected graph with
+ * weight C_ij + C_ji between i and j and no self-loops (self-weight would count as internal weight
+ * and split clusters). Randomness comes from the seeded generator, so a seed fixes the partition;
+ * clusters are relabelled canonically, ordered by their smallest member index.
+ */
+import { UndirectedGraph } from "graphology";
+import louvainModule from "graphology-communities-louvain";
+import type { CountMatrix, IndexGroups } from "../domain/counts.js";
+import { createSeededRng } from "../ports/rng.js";
+
+type Louvain = typeof louvainModule.default;
+// The package is CommonJS: under Node's ESM loader the default import is `module.exports` (the
+// function itself), while its typings describe `module.exports.default`. Accept either shape.
+const louvain: Louvain =
+  (louvainModule as unknown as { default?: Louvain }).default ??
+  (louvainModule as unknown as Louvain);
+
+export interface Clusters {
+  /** A partition of all member indices; each group ascending, groups by smallest index. */
+  readonly groups: IndexGroups;
+  /** Newman–Girvan modularity of the partition on C + Cᵀ (resolution 1). */
+  readonly modularity: number;
+}
+
+/** Seeded Louvain clusters of C + Cᵀ; null when no two members exchanged any attention. */
+export function louvainClusters(counts: CountMatrix, options: { seed: number }): Clusters | null {
+  const n = counts.members.length;
+  const { rowPtr, colIdx, values } = counts;
+  const graph = new UndirectedGraph<Record<string, never>, { weight: number }>();
+  for (let i = 0; i < n; i++) graph.addNode(String(i));
+  for (let i = 0; i < n; i++) {
+    for (let k = rowPtr[i]; k < rowPtr[i + 1]; k++) {
+      const j = colIdx[k];
+      if (j === i || !(values[k] > 0)) continue;
+      const key = i < j ? `${i}-${j}` : `${j}-${i}`;
+      if (graph.hasEdge(key)) {
+        graph.updateEdgeAttribute(key, "weight", (w) => (w ?? 0) + values[k]);
+      } else {
+        graph.addUndirectedEdgeWithKey(key, String(Math.min(i, j)), String(Math.max(i, j)), {
+          weight: values[k],
+        });
+      }
+    }
+  }
+  if (graph.size === 0) return null;
+
+  const rng = createSeededRng(options.seed);
+  const result = louvain.detailed(graph, {
+    getEdgeWeight: "weight",
+    rng: () => rng.next(),
+  });
+
+  const byLabel = new Map<number, number[]>();
+  for (let i = 0; i < n; i++) {
+    const label = result.communities[String(i)];
+    const members = byLabel.get(label);
+    if (members === undefined) byLabel.set(label, [i]);
+    else members.push(i);
+  }
+  // Members were visited in ascending order, so each list is sorted and starts at its minimum.
+  const groups = [...byLabel.values()].sort((a, b) => a[0] - b[0]);
+  return { groups, modularity: result.modularity };
+}
