@@ -1,0 +1,109 @@
+/**
+ * @module cli-analyze
+ * `plumbline analyze`, `compare` and `whatif`: read a channel, run the one analysis, print the
+ * readable summary with the cautions, or the report object with `--json`.
+ */
+import { parseDateRange, windowAndPrevious } from "../../src/domain/date-range.js";
+import { PlumblineError } from "../../src/domain/errors.js";
+import type { AnalysisSettings } from "../../src/domain/settings.js";
+import { analyzeSnapshot } from "../../src/report/analyze-snapshot.js";
+import { compareBlocks, whatIfBlocks } from "../../src/report/compare-blocks.js";
+import { comparePeriods } from "../../src/report/compare-periods.js";
+import { renderText } from "../../src/report/render-text.js";
+import { summaryBlocks } from "../../src/report/summary-blocks.js";
+import { whatIfCap } from "../../src/report/what-if.js";
+import { ANALYSIS_OPTIONS, parseCommandArgs, parseUntil, settingsFromFlags } from "./cli-flags.js";
+import type { CliIo } from "./cli-io.js";
+import { loadChannel } from "./load-channel.js";
+
+const SOURCE = "<log> | --db URL --channel C";
+
+async function prepare(
+  argv: readonly string[],
+  io: CliIo,
+  usage: string,
+  extra: Record<string, { type: "string" }> = {},
+) {
+  const parsed = parseCommandArgs(argv, { ...ANALYSIS_OPTIONS, ...extra }, usage);
+  const settings: AnalysisSettings = settingsFromFlags(parsed.values);
+  const until =
+    typeof parsed.values.until === "string" ? parseUntil(parsed.values.until) : undefined;
+  const source = await loadChannel({
+    parsed,
+    io,
+    usage,
+    ...(until === undefined ? {} : { until }),
+  });
+  if (source.skipped > 0)
+    io.stderr(`plumbline: skipped ${source.skipped} bad line(s) (--skip-bad)\n`);
+  return { parsed, settings, until, snapshot: source.snapshot };
+}
+
+function print(io: CliIo, json: boolean, value: unknown, text: () => string): void {
+  io.stdout(json ? `${JSON.stringify(value, null, 2)}\n` : text());
+}
+
+export async function runAnalyze(argv: readonly string[], io: CliIo): Promise<number> {
+  const usage = `plumbline analyze ${SOURCE} [flags] [--json]`;
+  const { parsed, settings, until, snapshot } = await prepare(argv, io, usage);
+  const report = analyzeSnapshot(snapshot, settings, until === undefined ? {} : { until });
+  print(io, parsed.values.json === true, report, () =>
+    renderText(summaryBlocks(report, { namesOn: true })),
+  );
+  return 0;
+}
+
+export async function runCompare(argv: readonly string[], io: CliIo): Promise<number> {
+  const usage = `plumbline compare ${SOURCE} --a YYYY-MM-DD..YYYY-MM-DD --b YYYY-MM-DD..YYYY-MM-DD [flags] [--json]`;
+  const { parsed, settings, snapshot } = await prepare(argv, io, usage, {
+    a: { type: "string" },
+    b: { type: "string" },
+  });
+  const rawA = parsed.values.a;
+  const rawB = parsed.values.b;
+  let ranges: { a: ReturnType<typeof parseDateRange>; b: ReturnType<typeof parseDateRange> };
+  if (typeof rawA === "string" && typeof rawB === "string") {
+    ranges = { a: parseDateRange(rawA), b: parseDateRange(rawB) };
+  } else if (rawA === undefined && rawB === undefined) {
+    const end =
+      typeof parsed.values.until === "string"
+        ? parseUntil(parsed.values.until)
+        : snapshot.lastEventAt;
+    if (end === null)
+      throw new PlumblineError("ARG_MISSING", "the channel has no events", {
+        hint: "check the log",
+      });
+    const [a, b] = windowAndPrevious(end, settings.windowDays);
+    ranges = { a, b };
+  } else {
+    throw new PlumblineError(
+      "ARG_MISSING",
+      "give both --a and --b, or neither (this window against the one before)",
+      { hint: `usage: ${usage}` },
+    );
+  }
+  const result = comparePeriods(snapshot, settings, ranges);
+  print(io, parsed.values.json === true, result, () => renderText(compareBlocks(result)));
+  return 0;
+}
+
+export async function runWhatIf(argv: readonly string[], io: CliIo): Promise<number> {
+  const usage = `plumbline whatif ${SOURCE} --cap SHARE [flags] [--json]`;
+  const { parsed, settings, until, snapshot } = await prepare(argv, io, usage, {
+    cap: { type: "string" },
+  });
+  const raw = parsed.values.cap;
+  if (typeof raw !== "string")
+    throw new PlumblineError("ARG_MISSING", "whatif needs --cap", {
+      hint: "for example --cap 0.25",
+    });
+  const cap = Number(raw);
+  if (!(Number.isFinite(cap) && cap > 0 && cap < 1)) {
+    throw new PlumblineError("ARG_BAD_VALUE", `--cap ${JSON.stringify(raw)} is not a share`, {
+      hint: "give a share between 0 and 1, for example 0.25",
+    });
+  }
+  const result = whatIfCap(snapshot, settings, { cap, ...(until === undefined ? {} : { until }) });
+  print(io, parsed.values.json === true, result, () => renderText(whatIfBlocks(result)));
+  return 0;
+}

@@ -1,0 +1,12 @@
+/**
+ * @module cli-io
+ * What a CLI command may touch: output streams, the environment and the working directory, all
+ * passed in so tests run commands in-process.
+ */
+
+export interface CliIo {
+  readonly stdout: (text: string) => void;
+  readonly stderr: (text: string) => void;
+  readonly env: Readonly<Record<string, string | undefined>>;
+  readonly cwd: string;
+}

@@ -1,0 +1,92 @@
+#!/usr/bin/env node
+/**
+ * @module cli
+ * `plumbline <command>`: the local adapter's entry point. Routes to one module per command; every
+ * error a user can cause prints one line naming the problem and the fix, and exits with code 2.
+ */
+import { isPlumblineError } from "../../src/domain/errors.js";
+import { runAnalyze, runCompare, runWhatIf } from "./cli-analyze.js";
+import { runDemo } from "./cli-demo.js";
+import type { CliIo } from "./cli-io.js";
+
+type Command = (argv: readonly string[], io: CliIo) => Promise<number>;
+
+const COMMANDS: Record<string, { run: Command; summary: string }> = {
+  analyze: {
+    run: runAnalyze,
+    summary: "analyze <log> [flags] [--json]     influence shares, effective voices, structure",
+  },
+  compare: {
+    run: runCompare,
+    summary: "compare <log> --a RANGE --b RANGE   two periods side by side, P(B more balanced)",
+  },
+  whatif: {
+    run: runWhatIf,
+    summary:
+      "whatif <log> --cap SHARE            recompute with attention to any one member capped",
+  },
+  demo: {
+    run: runDemo,
+    summary: "demo [--write-log FILE]            the invented scenario, analysed and compared",
+  },
+};
+
+export const HELP = `plumbline: how evenly a chat channel's discussion pools what its members know.
+
+Usage: plumbline <command> [arguments]
+
+Commands:
+${Object.values(COMMANDS)
+  .map((c) => `  ${c.summary}`)
+  .join("\n")}
+  help                               this text
+
+Model flags (analyze, compare, whatif): --channel C --until TIME --window DAYS --half-life DAYS
+  --reply-weight W --mention-weight W --background B --self-weight S --samples K --interval P
+  --seed N --threshold auto|SHARE --min-members N --min-signals N --skip-bad --json
+Ranges are YYYY-MM-DD..YYYY-MM-DD, both days included (UTC).
+`;
+
+export async function main(argv: readonly string[], io: CliIo): Promise<number> {
+  const [name, ...rest] = argv;
+  if (name === undefined || name === "help" || name === "--help" || name === "-h") {
+    io.stdout(HELP);
+    return 0;
+  }
+  const command = COMMANDS[name];
+  if (!command) {
+    io.stderr(`plumbline: unknown command "${name}". Run "plumbline help" for the list.\n`);
+    return 2;
+  }
+  try {
+    return await command.run(rest, io);
+  } catch (error) {
+    if (isPlumblineError(error)) {
+      io.stderr(
+        `plumbline: ${error.message}${error.hint ? ` (${error.hint})` : ""} [${error.code}]\n`,
+      );
+      return 2;
+    }
+    const message = error instanceof Error ? error.message : String(error);
+    io.stderr(
+      `plumbline: internal error: ${message}. Please report it with the command you ran.\n`,
+    );
+    if (io.env.PLUMBLINE_DEBUG) io.stderr(`${error instanceof Error ? error.stack : ""}\n`);
+    return 1;
+  }
+}
+
+const invokedDirectly =
+  process.argv[1] !== undefined &&
+  import.meta.url === (await import("node:url")).pathToFileURL(process.argv[1]).href;
+if (invokedDirectly) {
+  const io: CliIo = {
+    stdout: (t) => process.stdout.write(t),
+    stderr: (t) => process.stderr.write(t),
+    env: process.env,
+    cwd: process.cwd(),
+  };
+  main(process.argv.slice(2), io).then((code) => {
+    process.exitCode = code;
+  });
+}

@@ -1,0 +1,142 @@
+/**
+ * @module summary-blocks
+ * The analysis summary as neutral blocks: headline figures, the share bars with their intervals
+ * and the line, structure, groups, contributors, a plain reading and the cautions.
+ */
+import type { AnalysisReport } from "../domain/report.js";
+import type { BarRow, Block, FigureRow } from "./blocks.js";
+import { CAUTIONS_LINE } from "./cautions.js";
+import { decimal1, isoDay, percent, percentRange, voicesOf } from "./format.js";
+import { memberLabeller, type NamingPolicy } from "./naming.js";
+import { plainReading } from "./reading.js";
+
+function windowLine(report: AnalysisReport): string {
+  const w = report.window;
+  const decay = w.halfLifeDays > 0 ? `half-life ${w.halfLifeDays} days` : "no decay";
+  return `${isoDay(w.from)} to ${isoDay(w.until)} (${w.days} days, ${decay})`;
+}
+
+function neededText(report: AnalysisReport): string {
+  const needed = report.needed ?? { members: 0, signals: 0 };
+  const parts: string[] = [];
+  if (needed.members > 0) {
+    parts.push(`${needed.members} more opted-in active member${needed.members === 1 ? "" : "s"}`);
+  }
+  if (needed.signals > 0) {
+    parts.push(`${needed.signals} more replies or mentions between opted-in members`);
+  }
+  return `Too little data for figures: ${report.members} active members and ${report.signals} signals so far. Needed: ${parts.join(" and ")}.`;
+}
+
+function structureText(report: AnalysisReport): string {
+  const c = report.consensus;
+  if (!c) return "";
+  if (c.closedGroups > 1) {
+    return `${c.closedGroups} groups listen only among themselves: no single consensus`;
+  }
+  if (!c.reached || c.roundsToHalve === null) return "views keep circling: no settled consensus";
+  const rounds = c.roundsToHalve === 0 ? "at once" : `every ${decimal1(c.roundsToHalve)} rounds`;
+  return `settles on one consensus; disagreement halves ${rounds} of averaging (|λ2| = ${c.secondEigenvalue?.toFixed(2)})`;
+}
+
+/** Blocks summarising one report for a reader with the given naming policy. */
+export function summaryBlocks(
+  report: AnalysisReport,
+  policy: NamingPolicy,
+  options: { title?: string; maxBars?: number } = {},
+): Block[] {
+  const blocks: Block[] = [
+    { kind: "heading", text: options.title ?? `Influence balance · ${report.channel}` },
+    { kind: "note", text: windowLine(report) },
+  ];
+  if (report.status === "insufficient") {
+    blocks.push({ kind: "note", text: neededText(report) });
+    blocks.push({ kind: "cautions", text: CAUTIONS_LINE });
+    return blocks;
+  }
+  if (
+    report.status === "no-unique-shares" ||
+    !report.influence ||
+    !report.top ||
+    !report.effectiveVoices
+  ) {
+    blocks.push({ kind: "note", text: plainReading(report) });
+    blocks.push({ kind: "figures", rows: [{ label: "Structure", value: structureText(report) }] });
+    blocks.push({ kind: "cautions", text: CAUTIONS_LINE });
+    return blocks;
+  }
+  const label = memberLabeller(report.influence, policy);
+  const ev = report.effectiveVoices;
+  const rows: FigureRow[] = [
+    { label: "Active members", value: `${report.members}`, detail: `${report.signals} signals` },
+    {
+      label: "Effective voices",
+      value: voicesOf(ev.value, report.members),
+      detail: `interval ${decimal1(ev.low)}–${decimal1(ev.high)}; balance ${report.balance?.toFixed(2)}`,
+    },
+    {
+      label: "Largest share",
+      value: percent(report.top.share),
+      detail: `interval ${percentRange(report.top.low, report.top.high)}; ${label(report.top.member)}`,
+    },
+  ];
+  if (report.line) {
+    rows.push({
+      label: "Line",
+      value: percent(report.line.threshold),
+      detail: report.line.crossed
+        ? `crossed: ${label(report.line.member ?? "")} is above it with probability ${percent(report.line.probability)}`
+        : `not crossed (highest probability of being above it: ${percent(report.line.probability)})`,
+    });
+  }
+  rows.push({ label: "Structure", value: structureText(report) });
+  if (report.hhi !== null && report.concentration) {
+    rows.push({
+      label: "HHI (analogy)",
+      value: `${report.hhi}`,
+      detail: `would count as ${report.concentration === "moderate" ? "moderately concentrated" : report.concentration === "high" ? "highly concentrated" : "unconcentrated"} under the 2010 U.S. merger guidelines`,
+    });
+  }
+  blocks.push({ kind: "note", text: plainReading(report) });
+  blocks.push({ kind: "figures", rows });
+  const maxBars = options.maxBars ?? 20;
+  const bars: BarRow[] = report.influence.slice(0, maxBars).map((e) => ({
+    label: label(e.member),
+    value: e.share,
+    low: e.low,
+    high: e.high,
+    text: `${percent(e.share)} (${percentRange(e.low, e.high)})`,
+  }));
+  const more = report.influence.length - bars.length;
+  blocks.push({
+    kind: "bars",
+    caption: `Influence shares, largest first (${Math.round(report.settings.interval * 100)}% interval in brackets${more > 0 ? `; ${more} more not shown` : ""})`,
+    rows: bars,
+    line: report.line?.threshold ?? null,
+  });
+  const groups = report.groups ?? report.clusters?.groups ?? null;
+  if (groups && groups.length > 0) {
+    const title = report.groups
+      ? "Groups"
+      : `Clusters found in the replies (modularity ${report.clusters?.modularity.toFixed(2)}, unnamed)`;
+    blocks.push({
+      kind: "figures",
+      rows: [
+        { label: title, value: "" },
+        ...groups.map((g) => ({
+          label: `  ${g.group}`,
+          value: `${percent(g.share)} of influence`,
+          detail: `${percent(g.headcountShare)} of members (${g.members}); interval ${percentRange(g.low, g.high)}`,
+        })),
+      ],
+    });
+  }
+  if (report.contributors && report.contributors.length > 0) {
+    const top = report.contributors
+      .slice(0, 5)
+      .map((c) => `${label(c.member)} ${percent(c.share)}`);
+    blocks.push({ kind: "note", text: `Where the largest share comes from: ${top.join(", ")}.` });
+  }
+  blocks.push({ kind: "cautions", text: CAUTIONS_LINE });
+  return blocks;
+}
