@@ -2,7 +2,8 @@
  * @module cap-attention
  * The what-if of DESIGN.md §6: cap any one target's part of each member's attention (a row of A)
  * at `cap`, spreading the excess over that member's other targets in proportion to their current
- * parts (water-filling: repeat until no part exceeds the cap). Works on the sparse-plus-even row
+ * parts (water-filling: repeat until no part exceeds the cap; when no other target has any
+ * attention, as with β = 0 and one target, the excess is spread evenly). Works on the sparse-plus-even row
  * form, treating a row's unobserved targets as one block of equal parts. The self-weight σ is not
  * attention to others and is left alone.
  */
@@ -69,7 +70,22 @@ export function capAttentionRows(rows: AttentionRows, cap: number): AttentionRow
       }
       if (restCapped) fixedMass += unobserved * cap;
       else freeMass += unobserved * restPart;
-      if (freeMass <= 0) break;
+      if (freeMass <= 0) {
+        // No other target has any attention to take the excess (β = 0 and a single target):
+        // spread it evenly over the remaining members, as a member with no signals would.
+        freeMass = 0;
+        for (let k = 0; k < stored; k++) {
+          if (!capped[k]) {
+            parts[k] = 1;
+            freeMass += 1;
+          }
+        }
+        if (!restCapped) {
+          restPart = 1;
+          freeMass += unobserved;
+        }
+        if (freeMass <= 0) break;
+      }
       const scale = (1 - fixedMass) / freeMass;
       for (let k = 0; k < stored; k++) if (!capped[k]) parts[k] *= scale;
       if (!restCapped) restPart *= scale;

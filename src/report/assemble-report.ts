@@ -188,7 +188,8 @@ export function assembleReport(
     };
   });
   const order = members.map((_, i) => i);
-  order.sort((a, b) => shares[b] - shares[a] || (members[a] < members[b] ? -1 : 1));
+  // Sorted by the share as reported (rounded), so exact ties fall to the member id, not to noise.
+  order.sort((a, b) => entries[b].share - entries[a].share || (members[a] < members[b] ? -1 : 1));
   const influenceSorted = order.map((i) => entries[i]);
   const topIndex = order[0];
   const topEntry = entries[topIndex];
@@ -198,9 +199,8 @@ export function assembleReport(
   const parts = contributorsTo(influence.rows, shares, topIndex);
   const contributors = order
     .filter((i) => i !== topIndex)
-    .map((i) => ({ member: members[i], share: round6(parts[i]), raw: parts[i] }))
-    .sort((a, b) => b.raw - a.raw || (a.member < b.member ? -1 : 1))
-    .map(({ member, share }) => ({ member, share }));
+    .map((i) => ({ member: members[i], share: round6(parts[i]) }))
+    .sort((a, b) => b.share - a.share || (a.member < b.member ? -1 : 1));
   const lambda2 = influence.secondEigenvalue;
   const closedGroups = input.closedGroups.length;
   const roundsToHalve =
