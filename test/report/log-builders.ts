@@ -17,7 +17,7 @@ export function mentionEvents(
   options: { channel?: string; consent?: ConsentLevel | ((member: string) => ConsentLevel) } = {},
 ): ChatEvent[] {
   const channel = options.channel ?? "c1";
-  const members = [...new Set(pairs.flatMap(([a, b]) => [a, b]))].sort();
+  const members = [...new Set(pairs.map((p) => p[0]).concat(pairs.map((p) => p[1])))].sort();
   const level = (m: string): ConsentLevel =>
     typeof options.consent === "function" ? options.consent(m) : (options.consent ?? "named");
   const events: ChatEvent[] = members.map((member, k) => ({
