@@ -2,11 +2,10 @@
  * End-to-end checks of the analysis report (log events → ledger → signals → AnalysisReport)
  * against closed forms from outside the project.
  */
-import Graph from "graphology";
-import karateClub from "graphology-generators/social/karate-club";
 import { describe, expect, it } from "vitest";
 import { type AnalysisSettings, DEFAULT_SETTINGS } from "../../src/domain/settings.js";
 import { analyzeSnapshot } from "../../src/report/analyze-snapshot.js";
+import { karateTies } from "../support/karate-club.js";
 import { mentionEvents, mutualPairs, snapshotOf, T0 } from "./log-builders.js";
 
 const exact: AnalysisSettings = {
@@ -17,12 +16,6 @@ const exact: AnalysisSettings = {
   seed: 7,
   clusters: false,
 };
-
-function karateTies(): [string, string][] {
-  const g = karateClub(Graph);
-  const pad = (k: string) => `k${k.padStart(2, "0")}`;
-  return g.mapEdges((_e, _a, s, t) => [pad(s), pad(t)] as [string, string]);
-}
 
 describe("analysis report against closed forms", () => {
   // Reversibility (Levin, Peres & Wilmer, Markov Chains and Mixing Times, 2nd ed. 2017, §1.6, from
