@@ -1,0 +1,110 @@
+/**
+ * @module apply-event
+ * Rules 1–5 of docs/event-semantics.md on a store transaction, the same rules the in-memory
+ * `ChannelLedger` (src/attention/channel-ledger.ts) applies: consent is read at the event's time,
+ * a reply's parent author comes from the event or the ledger, edits refilter mentions at the
+ * message's own time, deletes and undeletes flip a mark. Member ids become member keys first.
+ */
+import type { ChatEvent, ConsentLevel, MessageEvent } from "../domain/events.js";
+import type { StoreTx } from "../ports/store.js";
+
+export interface ApplyContext {
+  readonly tx: StoreTx;
+  readonly memberKey: (platformId: string) => string;
+}
+
+const consenting = (level: ConsentLevel): boolean => level !== "off";
+
+/** Applies one (new) event inside the caller's transaction. */
+export async function applyEvent(ctx: ApplyContext, event: ChatEvent): Promise<void> {
+  const { tx, memberKey } = ctx;
+  await tx.touchChannel(event.channel, event.at);
+  switch (event.type) {
+    case "consent": {
+      const member = memberKey(event.member);
+      await tx.addConsent(event.channel, {
+        member,
+        at: event.at,
+        level: event.level,
+        notice: event.notice ?? null,
+      });
+      // The platform id is kept only while the member's latest consent is `named`.
+      const current = await tx.consentAt(event.channel, member, Number.MAX_SAFE_INTEGER);
+      await tx.setPlatformId(event.channel, member, current === "named" ? event.member : null);
+      return;
+    }
+    case "message":
+      await storeMessage(ctx, event);
+      return;
+    case "edit": {
+      const stored = await tx.findMessage(event.channel, event.id);
+      if (stored === null) return;
+      const mentions = await filterMentions(ctx, {
+        channel: event.channel,
+        mentions: event.mentions.map(memberKey),
+        author: stored.author,
+        at: stored.at,
+      });
+      await tx.setMentions(event.channel, event.id, mentions);
+      return;
+    }
+    case "delete":
+    case "undelete": {
+      const stored = await tx.findMessage(event.channel, event.id);
+      if (stored !== null) await tx.setDeleted(event.channel, event.id, event.type === "delete");
+      return;
+    }
+    case "group":
+      await tx.addGroup(event.channel, {
+        member: memberKey(event.member),
+        at: event.at,
+        group: event.group,
+      });
+      return;
+  }
+}
+
+async function storeMessage(ctx: ApplyContext, event: MessageEvent): Promise<void> {
+  const { tx, memberKey } = ctx;
+  if ((await tx.findMessage(event.channel, event.id)) !== null) return; // first wins
+  const author = memberKey(event.author);
+  if (!consenting(await tx.consentAt(event.channel, author, event.at))) return;
+  let parentAuthor: string | null =
+    event.parentAuthor === undefined ? null : memberKey(event.parentAuthor);
+  if (parentAuthor === null && event.parent !== undefined) {
+    parentAuthor = (await tx.findMessage(event.channel, event.parent))?.author ?? null;
+  }
+  if (
+    parentAuthor !== null &&
+    (parentAuthor === author ||
+      !consenting(await tx.consentAt(event.channel, parentAuthor, event.at)))
+  ) {
+    parentAuthor = null;
+  }
+  await tx.insertMessage(event.channel, {
+    id: event.id,
+    author,
+    at: event.at,
+    parentAuthor,
+    mentions: await filterMentions(ctx, {
+      channel: event.channel,
+      mentions: (event.mentions ?? []).map(memberKey),
+      author,
+      at: event.at,
+    }),
+    deleted: false,
+  });
+}
+
+/** Rule 2's filter: distinct, not the author, consenting at `at` (order is fixed at snapshot). */
+async function filterMentions(
+  ctx: ApplyContext,
+  args: { channel: string; mentions: readonly string[]; author: string; at: number },
+): Promise<string[]> {
+  const kept: string[] = [];
+  for (const member of new Set(args.mentions)) {
+    if (member === args.author) continue;
+    if (consenting(await ctx.tx.consentAt(args.channel, member, args.at))) kept.push(member);
+  }
+  return kept;
+}

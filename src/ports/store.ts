@@ -1,0 +1,158 @@
+/**
+ * @module store
+ * The persistence port (DESIGN.md §8). One contract, three implementations in `src/store`
+ * (memory, SQLite, PostgreSQL) run by one shared test suite. Member ids never reach a table as
+ * given: the store turns each platform id into a keyed HMAC (`memberKey`) and keeps the platform id
+ * only for members whose current consent in that channel is `named`. `loadSnapshot` maps keys back:
+ * a member with a kept platform id appears under it, every other member as `~` + key.
+ *
+ * Ingestion (`src/ingest`) applies the event rules of docs/event-semantics.md through `StoreTx`,
+ * inside `transaction`, so a delivery key and the changes it causes commit together or not at all.
+ */
+import type { ConsentLevel } from "../domain/events.js";
+import type {
+  ConsentChange,
+  GroupChange,
+  LedgerMessage,
+  LedgerSnapshot,
+} from "../domain/ledger.js";
+
+/** Prefix of the snapshot id of a member whose platform id is not kept. */
+export const PSEUDONYM_PREFIX = "~";
+
+/** A message as the transaction sees it: member fields hold member keys. */
+export interface StoredMessageHead {
+  readonly author: string;
+  readonly at: number;
+}
+
+/**
+ * The operations ingestion needs, all inside one transaction. Every `member`, `author`,
+ * `parentAuthor` and mention here is a member key (`Store.memberKey`), never a platform id.
+ */
+export interface StoreTx {
+  /** Inserts the delivery key (ON CONFLICT DO NOTHING); true when it was new. */
+  addDelivery(key: string, receivedAt: number): Promise<boolean>;
+  /** Records that the channel saw an event at `at` (keeps the latest). */
+  touchChannel(channel: string, at: number): Promise<void>;
+  /** Rule 1: level of the latest applied change with `at` ≤ the given time; `off` when none. */
+  consentAt(channel: string, member: string, at: number): Promise<ConsentLevel>;
+  /** Appends a consent change (applied order is kept). */
+  addConsent(channel: string, change: ConsentChange): Promise<void>;
+  /** Keeps (string) or forgets (null) the member's platform id in the channel. */
+  setPlatformId(channel: string, member: string, platformId: string | null): Promise<void>;
+  /** Appends a group change (applied order is kept). */
+  addGroup(channel: string, change: GroupChange): Promise<void>;
+  findMessage(channel: string, id: string): Promise<StoredMessageHead | null>;
+  /** Stores a new ledger message; its mentions become rows of kind `mention`. */
+  insertMessage(channel: string, message: LedgerMessage): Promise<void>;
+  /** Replaces the mention rows of a stored message. */
+  setMentions(channel: string, id: string, mentions: readonly string[]): Promise<void>;
+  setDeleted(channel: string, id: string, deleted: boolean): Promise<void>;
+}
+
+/** Opaque per-channel JSON state owned by other modules. */
+export type ChannelStateKind = "settings" | "balance-note" | "conversation";
+
+export interface ChannelInfo {
+  readonly channel: string;
+  readonly workspace: string | null;
+  readonly lastEventAt: number | null;
+}
+
+export type ClaimStatus = "claimed" | "posted" | "missed";
+
+/** One post claim: the row that lets exactly one replica post a digest or note. */
+export interface PostClaim {
+  readonly channel: string;
+  /** e.g. "digest" or "note". */
+  readonly kind: string;
+  /** e.g. "2026-W45". */
+  readonly period: string;
+  readonly claimedBy: string;
+  readonly claimedAt: number;
+  /** Epoch ms after which an unfinished claim counts as a miss. */
+  readonly leaseUntil: number;
+  readonly status: ClaimStatus;
+  readonly platformMessageId: string | null;
+  /** Member key of the member a post concerns, if any (erased with that member). */
+  readonly member: string | null;
+}
+
+export interface ClaimRequest {
+  readonly channel: string;
+  readonly kind: string;
+  readonly period: string;
+  readonly claimedBy: string;
+  readonly now: number;
+  readonly leaseMs: number;
+  /** Platform id of the member the post concerns, if any; stored as a member key. */
+  readonly member?: string | null;
+}
+
+export interface ClaimKey {
+  readonly channel: string;
+  readonly kind: string;
+  readonly period: string;
+}
+
+export interface PurgeCutoffs {
+  /** Ledger messages with `at` before this (epoch ms) are dropped. */
+  readonly ledgerBefore: number;
+  /** Delivery keys received before this are dropped. */
+  readonly deliveriesBefore: number;
+}
+
+export interface PurgeCounts {
+  readonly messages: number;
+  readonly deliveries: number;
+}
+
+export interface EraseCounts {
+  /** Rows deleted or cleared, summed over tables. */
+  readonly rows: number;
+}
+
+export type StoreKind = "memory" | "sqlite" | "postgres";
+
+export interface Store {
+  readonly kind: StoreKind;
+  /** Schema version of the open database (0 for memory). */
+  readonly schemaVersion: number;
+  /** The keyed HMAC-SHA256 of a platform id, as stored. Deterministic for one id key. */
+  memberKey(platformId: string): string;
+  /** Runs `fn` in one transaction: all of its writes commit, or none (it rethrows). */
+  transaction<T>(fn: (tx: StoreTx) => Promise<T>): Promise<T>;
+  /** The channel's ledger, member ids mapped as the module header says. */
+  loadSnapshot(channel: string): Promise<LedgerSnapshot>;
+
+  /** Creates the channel row if needed and sets its workspace (null = none). */
+  registerChannel(channel: string, workspace: string | null): Promise<void>;
+  listChannels(): Promise<ChannelInfo[]>;
+
+  readChannelState(channel: string, kind: ChannelStateKind): Promise<unknown>;
+  /** Stores a JSON-serialisable value; `null` removes it. */
+  writeChannelState(channel: string, kind: ChannelStateKind, value: unknown): Promise<void>;
+
+  addFacilitator(channel: string, platformId: string): Promise<void>;
+  removeFacilitator(channel: string, platformId: string): Promise<void>;
+  isFacilitator(channel: string, platformId: string): Promise<boolean>;
+  /** Facilitators as snapshot ids (platform id when kept, else `~` + key), sorted. */
+  listFacilitators(channel: string): Promise<string[]>;
+
+  /** Inserts the claim (ON CONFLICT DO NOTHING); true only for the one caller that inserted it. */
+  claimPost(request: ClaimRequest): Promise<boolean>;
+  /** Marks a claim posted by its holder with the platform's message id; false if not held. */
+  completePost(key: ClaimKey & { claimedBy: string; platformMessageId: string }): Promise<boolean>;
+  getClaim(key: ClaimKey): Promise<PostClaim | null>;
+  /** Marks unfinished claims whose lease ended before `now` as missed and returns them. */
+  markMissedClaims(now: number): Promise<PostClaim[]>;
+
+  /** Deletes every row naming the member (by platform id) in the channel. */
+  eraseMember(channel: string, platformId: string): Promise<EraseCounts>;
+  eraseChannel(channel: string): Promise<EraseCounts>;
+  eraseWorkspace(workspace: string): Promise<EraseCounts>;
+  purge(cutoffs: PurgeCutoffs): Promise<PurgeCounts>;
+
+  close(): Promise<void>;
+}

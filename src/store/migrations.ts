@@ -1,0 +1,67 @@
+/**
+ * @module migrations
+ * Versioned schema for the SQL stores. Each migration is a list of statements applied in one
+ * transaction together with the new version number in `plumbline_schema`; a database whose version
+ * is above `LATEST_SCHEMA_VERSION` is refused (STORE_NEWER_THAN_CODE). The DDL is shared by SQLite
+ * and PostgreSQL; only the applied-order sequence column differs (`{SEQ}`).
+ */
+
+export type SqlDialect = "sqlite" | "postgres";
+
+interface Migration {
+  readonly version: number;
+  readonly statements: readonly string[];
+}
+
+const MIGRATIONS: readonly Migration[] = [
+  {
+    version: 1,
+    statements: [
+      `CREATE TABLE channel (channel TEXT PRIMARY KEY, workspace TEXT, last_event_at BIGINT)`,
+      `CREATE INDEX channel_workspace ON channel (workspace)`,
+      `CREATE TABLE delivery (delivery_key TEXT PRIMARY KEY, received_at BIGINT NOT NULL)`,
+      `CREATE INDEX delivery_received ON delivery (received_at)`,
+      `CREATE TABLE consent_change (seq {SEQ}, channel TEXT NOT NULL, member TEXT NOT NULL,
+        at BIGINT NOT NULL, level TEXT NOT NULL, notice TEXT)`,
+      `CREATE INDEX consent_lookup ON consent_change (channel, member, at, seq)`,
+      `CREATE TABLE named_member (channel TEXT NOT NULL, member TEXT NOT NULL,
+        platform_id TEXT NOT NULL, PRIMARY KEY (channel, member))`,
+      `CREATE TABLE group_change (seq {SEQ}, channel TEXT NOT NULL, member TEXT NOT NULL,
+        at BIGINT NOT NULL, label TEXT)`,
+      `CREATE INDEX group_lookup ON group_change (channel, member)`,
+      `CREATE TABLE message (channel TEXT NOT NULL, id TEXT NOT NULL, author TEXT NOT NULL,
+        at BIGINT NOT NULL, parent_author TEXT, deleted INTEGER NOT NULL DEFAULT 0,
+        PRIMARY KEY (channel, id))`,
+      `CREATE INDEX message_author ON message (channel, author)`,
+      `CREATE INDEX message_parent ON message (channel, parent_author)`,
+      `CREATE INDEX message_at ON message (at)`,
+      `CREATE TABLE message_target (channel TEXT NOT NULL, message_id TEXT NOT NULL,
+        kind TEXT NOT NULL, target TEXT NOT NULL, PRIMARY KEY (channel, message_id, kind, target))`,
+      `CREATE INDEX message_target_target ON message_target (channel, target)`,
+      `CREATE TABLE channel_state (channel TEXT NOT NULL, kind TEXT NOT NULL, value TEXT NOT NULL,
+        PRIMARY KEY (channel, kind))`,
+      `CREATE TABLE facilitator (channel TEXT NOT NULL, member TEXT NOT NULL,
+        PRIMARY KEY (channel, member))`,
+      `CREATE TABLE post_claim (channel TEXT NOT NULL, kind TEXT NOT NULL, period TEXT NOT NULL,
+        claimed_by TEXT NOT NULL, claimed_at BIGINT NOT NULL, lease_until BIGINT NOT NULL,
+        status TEXT NOT NULL, platform_message_id TEXT, member TEXT,
+        PRIMARY KEY (channel, kind, period))`,
+      `CREATE INDEX post_claim_member ON post_claim (channel, member)`,
+    ],
+  },
+];
+
+/** The schema version this code writes and reads. */
+export const LATEST_SCHEMA_VERSION = MIGRATIONS[MIGRATIONS.length - 1].version;
+
+/** Statements that take a database at `from` to the latest version, grouped per version. */
+export function pendingMigrations(
+  dialect: SqlDialect,
+  from: number,
+): { version: number; statements: string[] }[] {
+  const seq = dialect === "sqlite" ? "INTEGER PRIMARY KEY" : "BIGSERIAL PRIMARY KEY";
+  return MIGRATIONS.filter((m) => m.version > from).map((m) => ({
+    version: m.version,
+    statements: m.statements.map((s) => s.replaceAll("{SEQ}", seq)),
+  }));
+}

@@ -1,0 +1,151 @@
+import { mkdtempSync, rmSync, statSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import Database from "better-sqlite3";
+import { afterAll, describe, expect, it } from "vitest";
+import { ingest } from "../../src/ingest/ingest.js";
+import { LATEST_SCHEMA_VERSION } from "../../src/store/migrations.js";
+import { openSqliteStore, openStore, parseStoreUrl } from "../../src/store/open-store.js";
+import { storeContract } from "./store-contract.js";
+import { TEST_KEY } from "./test-key.js";
+
+const dir = mkdtempSync(join(tmpdir(), "plumbline-sqlite-"));
+afterAll(() => rmSync(dir, { recursive: true, force: true }));
+let n = 0;
+
+storeContract("sqlite file", async () => {
+  const store = await openSqliteStore(join(dir, `contract-${n++}.db`), { idKey: TEST_KEY });
+  return { store, cleanup: () => store.close() };
+});
+
+storeContract("sqlite :memory:", async () => {
+  const store = await openStore("sqlite::memory:", { idKey: TEST_KEY });
+  return { store, cleanup: () => store.close() };
+});
+
+describe("SQLite store", () => {
+  it("sets WAL, synchronous and the busy timeout on every open", async () => {
+    const path = join(dir, "pragmas.db");
+    for (const synchronous of ["NORMAL", "FULL"] as const) {
+      const store = await openSqliteStore(path, {
+        idKey: TEST_KEY,
+        synchronous,
+        busyTimeoutMs: 1234,
+      });
+      expect(store.pragma("journal_mode")).toEqual([{ journal_mode: "wal" }]);
+      // sqlite.org/pragma.html#pragma_synchronous: NORMAL = 1, FULL = 2.
+      expect(store.pragma("synchronous")).toEqual([
+        { synchronous: synchronous === "NORMAL" ? 1 : 2 },
+      ]);
+      expect(store.pragma("busy_timeout")).toEqual([{ timeout: 1234 }]);
+      await store.close();
+    }
+  });
+
+  it("creates the folder and a 0600 key file beside the database, and reuses it", async () => {
+    const url = "sqlite:./nested/deeper/p.db";
+    const first = await openStore(url, { cwd: dir });
+    const key = first.memberKey("U1");
+    await first.close();
+    const keyFile = join(dir, "nested/deeper/p.db.key");
+    expect(statSync(keyFile).mode & 0o777).toBe(0o600);
+    const second = await openStore(url, { cwd: dir });
+    expect(second.memberKey("U1")).toBe(key);
+    await second.close();
+    const other = await openStore(url, { cwd: dir, idKey: `${TEST_KEY}-other` });
+    expect(other.memberKey("U1")).not.toBe(key);
+    await other.close();
+  });
+
+  it("migrates once, records the version, and refuses a database newer than the code", async () => {
+    const path = join(dir, "versions.db");
+    const runs: number[] = [];
+    const a = await openSqliteStore(path, {
+      idKey: TEST_KEY,
+      onMigrated: (i) => runs.push(i.applied),
+    });
+    expect(a.schemaVersion).toBe(LATEST_SCHEMA_VERSION);
+    await a.close();
+    const b = await openSqliteStore(path, {
+      idKey: TEST_KEY,
+      onMigrated: (i) => runs.push(i.applied),
+    });
+    await b.close();
+    expect(runs).toEqual([LATEST_SCHEMA_VERSION, 0]);
+    const raw = new Database(path);
+    raw.prepare("UPDATE plumbline_schema SET version = ?").run(LATEST_SCHEMA_VERSION + 1);
+    raw.close();
+    await expect(openSqliteStore(path, { idKey: TEST_KEY })).rejects.toMatchObject({
+      code: "STORE_NEWER_THAN_CODE",
+    });
+  });
+
+  it("stores no platform id for counted members and no text anywhere", async () => {
+    const path = join(dir, "privacy.db");
+    const store = await openSqliteStore(path, { idKey: TEST_KEY });
+    const at = Date.UTC(2026, 10, 2);
+    await ingest(
+      store,
+      { type: "consent", at, channel: "c1", member: "SECRET_COUNTED", level: "counted" },
+      "a",
+    );
+    await ingest(
+      store,
+      { type: "consent", at, channel: "c1", member: "VISIBLE_NAMED", level: "named" },
+      "b",
+    );
+    await ingest(
+      store,
+      {
+        type: "message",
+        at,
+        channel: "c1",
+        id: "m1",
+        author: "SECRET_COUNTED",
+        mentions: ["VISIBLE_NAMED"],
+      },
+      "c",
+    );
+    await store.close();
+    const raw = new Database(path, { readonly: true });
+    const tables = raw.prepare("SELECT name FROM sqlite_master WHERE type = 'table'").all() as {
+      name: string;
+    }[];
+    const dump = tables
+      .map((t) => JSON.stringify(raw.prepare(`SELECT * FROM "${t.name}"`).all()))
+      .join("\n");
+    raw.close();
+    expect(dump).not.toContain("SECRET_COUNTED");
+    expect(dump.split("VISIBLE_NAMED").length - 1).toBe(1); // only in named_member
+  });
+
+  it("rejects bad URLs naming the accepted forms", () => {
+    for (const url of [
+      "",
+      "mysql://x",
+      "sqlite:",
+      "sqlite://host/x",
+      "postgres://",
+      "file:./x.db",
+    ]) {
+      expect(() => parseStoreUrl(url)).toThrow(expect.objectContaining({ code: "STORE_BAD_URL" }));
+    }
+    expect(() => parseStoreUrl("nope")).toThrow(/sqlite::memory:.*postgres:\/\//);
+    expect(parseStoreUrl("sqlite:///tmp/a.db")).toEqual({ kind: "sqlite", path: "/tmp/a.db" });
+    expect(parseStoreUrl("sqlite:a.db", "/srv")).toEqual({ kind: "sqlite", path: "/srv/a.db" });
+    expect(parseStoreUrl("postgresql://u@h/db")).toEqual({
+      kind: "postgres",
+      url: "postgresql://u@h/db",
+    });
+  });
+
+  it("requires an id key where no key file can live beside the database", async () => {
+    await expect(openStore("sqlite::memory:")).rejects.toMatchObject({ code: "STORE_NO_ID_KEY" });
+    await expect(openStore("memory:")).rejects.toMatchObject({ code: "STORE_NO_ID_KEY" });
+    await expect(
+      openStore("memory:", { idKeyFile: join(dir, "missing.key") }),
+    ).rejects.toMatchObject({
+      code: "STORE_NO_ID_KEY",
+    });
+  });
+});

@@ -1,0 +1,353 @@
+/**
+ * @module store-contract
+ * One suite for every `Store` (memory, SQLite, PostgreSQL), in the manner of a spec factory: the
+ * same calls must give the same answers. The event rules are checked against
+ * docs/event-semantics.md directly and against the independent in-memory `ChannelLedger`.
+ */
+import { afterEach, beforeEach, describe, expect, it } from "vitest";
+import { ChannelLedger } from "../../src/attention/channel-ledger.js";
+import type { ChatEvent } from "../../src/domain/events.js";
+import type { LedgerSnapshot } from "../../src/domain/ledger.js";
+import { DAY_MS } from "../../src/domain/settings.js";
+import { eraseChannel, eraseWorkspace, leave } from "../../src/ingest/erase.js";
+import { ingest, ingestBatch } from "../../src/ingest/ingest.js";
+import { purge } from "../../src/ingest/purge.js";
+import type { Store } from "../../src/ports/store.js";
+import { randomDeliveries } from "../ingest/random-events.js";
+
+export interface StoreFixture {
+  readonly store: Store;
+  readonly cleanup: () => Promise<void>;
+}
+
+const T0 = Date.UTC(2026, 10, 2, 9, 0, 0);
+const c = "c1";
+const consent = (member: string, level: "off" | "counted" | "named", at = T0): ChatEvent => ({
+  type: "consent",
+  at,
+  channel: c,
+  member,
+  level,
+  notice: "v1",
+});
+const msg = (id: string, author: string, at: number, extra: object = {}): ChatEvent => ({
+  type: "message",
+  at,
+  channel: c,
+  id,
+  author,
+  ...extra,
+});
+
+/** The ChannelLedger snapshot with ids mapped the way stores map them. */
+export function expectedSnapshot(
+  store: Store,
+  events: readonly ChatEvent[],
+  channel: string,
+): LedgerSnapshot {
+  const ledger = new ChannelLedger(channel);
+  for (const e of events) if (e.channel === channel) ledger.apply(e);
+  const snap = ledger.snapshot();
+  const id = (m: string) =>
+    ledger.consentAt(m, Number.MAX_SAFE_INTEGER) === "named" ? m : `~${store.memberKey(m)}`;
+  const messages = snap.messages.map((m) => ({
+    ...m,
+    author: id(m.author),
+    parentAuthor: m.parentAuthor === null ? null : id(m.parentAuthor),
+    mentions: m.mentions.map(id).sort(),
+  }));
+  return {
+    channel,
+    messages,
+    consent: snap.consent.map((x) => ({ ...x, member: id(x.member) })),
+    groups: snap.groups.map((x) => ({ ...x, member: id(x.member) })),
+    lastEventAt: snap.lastEventAt,
+  };
+}
+
+async function feed(store: Store, events: readonly ChatEvent[]): Promise<void> {
+  let i = 0;
+  for (const e of events) await ingest(store, e, `k${i++}`, { receivedAt: T0 });
+}
+
+export function storeContract(name: string, makeStore: () => Promise<StoreFixture>): void {
+  describe(`Store contract: ${name}`, () => {
+    let fixture: StoreFixture;
+    let store: Store;
+    beforeEach(async () => {
+      fixture = await makeStore();
+      store = fixture.store;
+    });
+    afterEach(async () => {
+      await fixture.cleanup();
+    });
+
+    it("keys members by a 128-bit hex HMAC, never the platform id", () => {
+      const k = store.memberKey("U1");
+      expect(k).toMatch(/^[0-9a-f]{32}$/);
+      expect(store.memberKey("U1")).toBe(k);
+      expect(store.memberKey("U2")).not.toBe(k);
+    });
+
+    it("applies a delivery once and reports the repeat", async () => {
+      expect(await ingest(store, consent("U1", "counted"), "a", { receivedAt: T0 })).toEqual({
+        applied: true,
+      });
+      expect(await ingest(store, consent("U1", "counted"), "a", { receivedAt: T0 })).toEqual({
+        applied: false,
+      });
+      expect((await store.loadSnapshot(c)).consent).toHaveLength(1);
+    });
+
+    it("rule 2: stores only consenting authors, resolves parents, filters mentions", async () => {
+      const events = [
+        consent("U1", "named"),
+        consent("U2", "counted"),
+        msg("m0", "U3", T0 + 1, { mentions: ["U1"] }), // U3 off: nothing stored
+        msg("m1", "U1", T0 + 2, { mentions: ["U2", "U2", "U1", "U3"] }),
+        msg("m2", "U2", T0 + 3, { parent: "m1" }),
+        msg("m3", "U2", T0 + 4, { parent: "m0" }), // parent not stored: no parent author
+        msg("m1", "U2", T0 + 5), // first wins
+      ];
+      await feed(store, events);
+      const snap = await store.loadSnapshot(c);
+      const u2 = `~${store.memberKey("U2")}`;
+      expect(snap.messages.map((m) => [m.id, m.author, m.parentAuthor, m.mentions])).toEqual([
+        ["m1", "U1", null, [u2]],
+        ["m2", u2, "U1", []],
+        ["m3", u2, null, []],
+      ]);
+      expect(snap.lastEventAt).toBe(T0 + 5);
+      expect(snap).toEqual(expectedSnapshot(store, events, c));
+    });
+
+    it("rule 1: consent is read at the event's time; a late change with an earlier time counts", async () => {
+      const events = [
+        consent("U1", "counted", T0 + 10),
+        msg("m1", "U1", T0 + 5), // before U1 opted in: dropped
+        msg("m2", "U1", T0 + 20, { mentions: ["U2"] }), // U2 not yet consenting
+        consent("U2", "counted", T0 + 1), // arrives late, time before m2
+        msg("m3", "U1", T0 + 30, { mentions: ["U2"] }),
+        { type: "edit", at: T0 + 40, channel: c, id: "m2", mentions: ["U2"] } as ChatEvent,
+      ];
+      await feed(store, events);
+      const snap = await store.loadSnapshot(c);
+      expect(snap.messages.map((m) => [m.id, m.mentions.length])).toEqual([
+        ["m2", 1],
+        ["m3", 1],
+      ]);
+      expect(snap).toEqual(expectedSnapshot(store, events, c));
+    });
+
+    it("rules 3–5: edits, deletes, undeletes and groups", async () => {
+      const events: ChatEvent[] = [
+        consent("U1", "named"),
+        consent("U2", "named"),
+        consent("U3", "named"),
+        msg("m1", "U1", T0 + 1, { mentions: ["U2"] }),
+        { type: "edit", at: T0 + 2, channel: c, id: "m1", mentions: ["U3", "U1"] },
+        { type: "edit", at: T0 + 2, channel: c, id: "nope", mentions: ["U3"] },
+        { type: "delete", at: T0 + 3, channel: c, id: "m1" },
+        { type: "group", at: T0 + 4, channel: c, member: "U2", group: "north" },
+        { type: "group", at: T0 + 5, channel: c, member: "U2", group: null },
+      ];
+      await feed(store, events);
+      let snap = await store.loadSnapshot(c);
+      expect(snap.messages).toEqual([
+        { id: "m1", author: "U1", at: T0 + 1, parentAuthor: null, mentions: ["U3"], deleted: true },
+      ]);
+      expect(snap.groups.map((g) => g.group)).toEqual(["north", null]);
+      await ingest(store, { type: "undelete", at: T0 + 6, channel: c, id: "m1" }, "u", {
+        receivedAt: T0,
+      });
+      snap = await store.loadSnapshot(c);
+      expect(snap.messages[0].deleted).toBe(false);
+    });
+
+    it("keeps a platform id only while the member's consent is named", async () => {
+      await feed(store, [consent("U1", "named"), consent("U1", "counted", T0 + 1)]);
+      const snap = await store.loadSnapshot(c);
+      expect(snap.consent.map((x) => x.member)).toEqual([
+        `~${store.memberKey("U1")}`,
+        `~${store.memberKey("U1")}`,
+      ]);
+      await ingest(store, consent("U1", "named", T0 + 2), "n", { receivedAt: T0 });
+      expect((await store.loadSnapshot(c)).consent.map((x) => x.member)).toEqual([
+        "U1",
+        "U1",
+        "U1",
+      ]);
+    });
+
+    it("matches the in-memory ChannelLedger on seeded random streams", async () => {
+      for (const seed of [1, 2, 3]) {
+        const deliveries = randomDeliveries({ seed, count: 400, channels: ["c1", "c2"] });
+        await ingestBatch(store, deliveries, { batchSize: 37, receivedAt: T0 });
+        const events = deliveries.map((d) => d.event);
+        for (const ch of ["c1", "c2"]) {
+          expect(await store.loadSnapshot(ch)).toEqual(expectedSnapshot(store, events, ch));
+        }
+        await eraseChannel(store, "c1");
+        await eraseChannel(store, "c2");
+        await purge(store, { now: T0 + 100 * DAY_MS, dedupeDays: 0 });
+      }
+    });
+
+    it("rolls a failed transaction back completely", async () => {
+      await expect(
+        store.transaction(async (tx) => {
+          await tx.addDelivery("x", T0);
+          await tx.addConsent(c, {
+            member: store.memberKey("U1"),
+            at: T0,
+            level: "counted",
+            notice: null,
+          });
+          throw new Error("boom");
+        }),
+      ).rejects.toThrow("boom");
+      expect((await store.loadSnapshot(c)).consent).toEqual([]);
+      expect(await ingest(store, consent("U1", "counted"), "x", { receivedAt: T0 })).toEqual({
+        applied: true,
+      });
+    });
+
+    it("leave erases every row naming the member in that channel only", async () => {
+      const events: ChatEvent[] = [
+        consent("U1", "named"),
+        consent("U2", "named"),
+        consent("U3", "counted"),
+        msg("m1", "U1", T0 + 1, { mentions: ["U2", "U3"] }),
+        msg("m2", "U2", T0 + 2, { parent: "m1", mentions: ["U1", "U3"] }),
+        msg("m3", "U3", T0 + 3, { mentions: ["U1"] }),
+        { type: "group", at: T0 + 4, channel: c, member: "U1", group: "north" },
+        { ...consent("U1", "named"), channel: "c2" },
+      ];
+      await feed(store, events);
+      await store.addFacilitator(c, "U1");
+      await store.claimPost({
+        channel: c,
+        kind: "note",
+        period: "p1",
+        claimedBy: "r1",
+        now: T0,
+        leaseMs: 1000,
+        member: "U1",
+      });
+      await store.claimPost({
+        channel: c,
+        kind: "digest",
+        period: "p1",
+        claimedBy: "r1",
+        now: T0,
+        leaseMs: 1000,
+      });
+      const erased = await leave(store, c, "U1");
+      expect(erased.rows).toBeGreaterThan(0);
+      const snap = await store.loadSnapshot(c);
+      const k1 = `~${store.memberKey("U1")}`;
+      const text = JSON.stringify(snap);
+      expect(text).not.toContain('"U1"');
+      expect(text).not.toContain(k1);
+      expect(snap.messages.map((m) => [m.id, m.parentAuthor, m.mentions.length])).toEqual([
+        ["m2", null, 1],
+        ["m3", null, 0],
+      ]);
+      expect(await store.isFacilitator(c, "U1")).toBe(false);
+      expect(await store.getClaim({ channel: c, kind: "note", period: "p1" })).toBeNull();
+      expect(await store.getClaim({ channel: c, kind: "digest", period: "p1" })).not.toBeNull();
+      expect((await store.loadSnapshot("c2")).consent.map((x) => x.member)).toEqual(["U1"]);
+    });
+
+    it("erases a channel and a workspace", async () => {
+      await store.registerChannel("c1", "w1");
+      await store.registerChannel("c2", "w1");
+      await store.registerChannel("c3", "w2");
+      for (const ch of ["c1", "c2", "c3"]) {
+        await ingest(store, { ...consent("U1", "named"), channel: ch }, `k-${ch}`, {
+          receivedAt: T0,
+        });
+        await store.writeChannelState(ch, "settings", { windowDays: 14 });
+      }
+      expect(
+        (await store.listChannels()).map((x) => [x.channel, x.workspace, x.lastEventAt]),
+      ).toEqual([
+        ["c1", "w1", T0],
+        ["c2", "w1", T0],
+        ["c3", "w2", T0],
+      ]);
+      await eraseWorkspace(store, "w1");
+      expect((await store.listChannels()).map((x) => x.channel)).toEqual(["c3"]);
+      expect((await store.loadSnapshot("c1")).consent).toEqual([]);
+      expect(await store.readChannelState("c2", "settings")).toBeNull();
+      await eraseChannel(store, "c3");
+      expect(await store.listChannels()).toEqual([]);
+      expect((await store.loadSnapshot("c3")).consent).toEqual([]);
+    });
+
+    it("purges ledger rows past retention and delivery keys past the dedupe window", async () => {
+      await ingest(store, consent("U1", "counted"), "k1", { receivedAt: T0 });
+      await ingest(store, msg("old", "U1", T0 + 1), "k2", { receivedAt: T0 });
+      await ingest(store, msg("new", "U1", T0 + 50 * DAY_MS), "k3", {
+        receivedAt: T0 + 50 * DAY_MS,
+      });
+      const counts = await purge(store, { now: T0 + 92 * DAY_MS });
+      expect(counts).toEqual({ messages: 1, deliveries: 3 });
+      const snap = await store.loadSnapshot(c);
+      expect(snap.messages.map((m) => m.id)).toEqual(["new"]);
+      expect(snap.consent).toHaveLength(1);
+      // k3 was received 42 days before the purge: gone, so it could apply again.
+      expect(await ingest(store, msg("x", "U1", T0 + 2), "k3", { receivedAt: T0 })).toEqual({
+        applied: true,
+      });
+    });
+
+    it("keeps opaque channel state and facilitators", async () => {
+      expect(await store.readChannelState(c, "balance-note")).toBeNull();
+      await store.writeChannelState(c, "balance-note", { last: "2026-11-01", above: true });
+      await store.writeChannelState(c, "conversation", { serviceUrl: "https://example.invalid" });
+      expect(await store.readChannelState(c, "balance-note")).toEqual({
+        last: "2026-11-01",
+        above: true,
+      });
+      await store.writeChannelState(c, "balance-note", null);
+      expect(await store.readChannelState(c, "balance-note")).toBeNull();
+      await ingest(store, consent("F1", "named"), "f", { receivedAt: T0 });
+      await store.addFacilitator(c, "F1");
+      await store.addFacilitator(c, "F2");
+      await store.addFacilitator(c, "F2");
+      expect(await store.isFacilitator(c, "F2")).toBe(true);
+      expect(await store.listFacilitators(c)).toEqual(["F1", `~${store.memberKey("F2")}`].sort());
+      await store.removeFacilitator(c, "F2");
+      expect(await store.listFacilitators(c)).toEqual(["F1"]);
+    });
+
+    it("lets exactly one claimant post, records the message id, marks expired claims missed", async () => {
+      const req = { channel: c, kind: "digest", period: "2026-W45", now: T0, leaseMs: 60_000 };
+      const results = await Promise.all([
+        store.claimPost({ ...req, claimedBy: "r1" }),
+        store.claimPost({ ...req, claimedBy: "r2" }),
+      ]);
+      expect(results.filter(Boolean)).toHaveLength(1);
+      const holder = results[0] ? "r1" : "r2";
+      const other = holder === "r1" ? "r2" : "r1";
+      expect(await store.completePost({ ...req, claimedBy: other, platformMessageId: "x" })).toBe(
+        false,
+      );
+      expect(
+        await store.completePost({ ...req, claimedBy: holder, platformMessageId: "ts1" }),
+      ).toBe(true);
+      expect(await store.getClaim(req)).toMatchObject({
+        status: "posted",
+        platformMessageId: "ts1",
+        claimedBy: holder,
+        leaseUntil: T0 + 60_000,
+      });
+      await store.claimPost({ ...req, period: "2026-W46", claimedBy: "r1" });
+      expect(await store.markMissedClaims(T0 + 30_000)).toEqual([]);
+      const missed = await store.markMissedClaims(T0 + 60_001);
+      expect(missed.map((m) => [m.period, m.status])).toEqual([["2026-W46", "missed"]]);
+      expect(await store.markMissedClaims(T0 + 60_002)).toEqual([]);
+    });
+  });
+}
