@@ -1,0 +1,129 @@
+/**
+ * @module posterior-draws
+ * Uncertainty of the influence shares (DESIGN.md §4.6): each attention row gets an independent
+ * Dirichlet posterior, Dirichlet(C_ij + b) over the n−1 others, drawn as normalised Gamma variates
+ * (Noé 2008, "Probability distributions of molecular observables computed from Markov models",
+ * J. Chem. Phys. 128:244103; Noé & Chodera 2014, "Uncertainty Estimation", in Bowman, Pande & Noé
+ * (eds.), An Introduction to Markov State Models, Springer). Unobserved cells share one Gamma
+ * variate G_0 ~ Gamma(b·(n−1−|J_i|)) whose share is spread evenly over them: by the aggregation
+ * property of the Dirichlet this is exact for every figure that depends on the row only through
+ * the observed cells and the unobserved total, and it keeps a draw O(nonzeros + n). Variates are
+ * combined in log space (the row's largest log is subtracted before exponentiating). Draw order is
+ * fixed — row by row, observed targets in CSR order, then G_0 — so one seed gives identical draws.
+ */
+
+import type { CountMatrix } from "../domain/counts.js";
+import type { Rng } from "../ports/rng.js";
+import { type AttentionRows, checkBackground, pointAttentionRows } from "./attention-rows.js";
+import { sampleLogGamma } from "./gamma-sampler.js";
+import { checkSelfWeight, stationaryVector } from "./stationary-vector.js";
+
+export interface PosteriorOptions {
+  /** β of DESIGN.md §4. */
+  readonly background: number;
+  /** σ of DESIGN.md §4. */
+  readonly selfWeight: number;
+  /** K, the number of draws. */
+  readonly samples: number;
+  readonly rng: Rng;
+  /** Warm start for every solve; default: the point estimate's stationary vector. */
+  readonly start?: Float64Array;
+}
+
+/** Fills `values` and `rest` with one posterior draw of A; `logs` is scratch of nnz length. */
+function drawInto(
+  counts: CountMatrix,
+  background: number,
+  rng: Rng,
+  target: { values: Float64Array; rest: Float64Array; logs: Float64Array },
+): void {
+  const n = counts.members.length;
+  const { rowPtr } = counts;
+  const { values, rest, logs } = target;
+  const b = n > 1 ? background / (n - 1) : 0;
+  for (let i = 0; i < n; i++) {
+    const lo = rowPtr[i];
+    const hi = rowPtr[i + 1];
+    const unobserved = n - 1 - (hi - lo);
+    if (hi === lo) {
+      rest[i] = n > 1 ? 1 / (n - 1) : 0;
+      continue;
+    }
+    let max = Number.NEGATIVE_INFINITY;
+    for (let k = lo; k < hi; k++) {
+      const log = sampleLogGamma(counts.values[k] + b, rng);
+      logs[k] = log;
+      if (log > max) max = log;
+    }
+    const restShape = b * unobserved;
+    const logRest = restShape > 0 ? sampleLogGamma(restShape, rng) : Number.NEGATIVE_INFINITY;
+    if (logRest > max) max = logRest;
+    if (max === Number.NEGATIVE_INFINITY) {
+      // Every variate underflowed even in log space (shapes near the smallest double): even row.
+      for (let k = lo; k < hi; k++) values[k] = 0;
+      rest[i] = 1 / (n - 1);
+      continue;
+    }
+    let total = 0;
+    for (let k = lo; k < hi; k++) {
+      const w = Math.exp(logs[k] - max);
+      values[k] = w;
+      total += w;
+    }
+    const restWeight = Math.exp(logRest - max);
+    total += restWeight;
+    for (let k = lo; k < hi; k++) values[k] /= total;
+    rest[i] = unobserved > 0 ? restWeight / total / unobserved : 0;
+  }
+}
+
+/** One draw of A from the row-wise Dirichlet posterior of DESIGN.md §4.6 (structure shared). */
+export function drawAttentionRows(
+  counts: CountMatrix,
+  background: number,
+  rng: Rng,
+): AttentionRows {
+  checkBackground(background);
+  const n = counts.members.length;
+  const nnz = counts.values.length;
+  const values = new Float64Array(nnz);
+  const rest = new Float64Array(n);
+  drawInto(counts, background, rng, { values, rest, logs: new Float64Array(nnz) });
+  return { n, rowPtr: counts.rowPtr, colIdx: counts.colIdx, values, rest };
+}
+
+/**
+ * K posterior draws of the influence shares: draw A, solve sT = s warm-started from `start`.
+ * Draws are made in a fixed order, so the same seed gives byte-identical vectors.
+ */
+export function posteriorShares(counts: CountMatrix, options: PosteriorOptions): Float64Array[] {
+  const { background, selfWeight, samples, rng } = options;
+  checkBackground(background);
+  checkSelfWeight(selfWeight);
+  if (!Number.isInteger(samples) || samples < 0) {
+    throw new RangeError(`samples must be a non-negative integer, got ${samples}`);
+  }
+  const n = counts.members.length;
+  const nnz = counts.values.length;
+  const start =
+    options.start ??
+    stationaryVector(pointAttentionRows(counts, background), { selfWeight }).vector;
+  const buffer = {
+    values: new Float64Array(nnz),
+    rest: new Float64Array(n),
+    logs: new Float64Array(nnz),
+  };
+  const rows: AttentionRows = {
+    n,
+    rowPtr: counts.rowPtr,
+    colIdx: counts.colIdx,
+    values: buffer.values,
+    rest: buffer.rest,
+  };
+  const draws: Float64Array[] = [];
+  for (let k = 0; k < samples; k++) {
+    drawInto(counts, background, rng, buffer);
+    draws.push(stationaryVector(rows, { selfWeight, start }).vector);
+  }
+  return draws;
+}
