@@ -89,11 +89,6 @@ export class MemberTimeline<C extends TimedChange> {
     const position = upperBound(list, at);
     return position === 0 ? undefined : list[position - 1];
   }
-
-  /** Members with at least one change. */
-  members(): IterableIterator<string> {
-    return this.byMember.keys();
-  }
 }
 
 /** First index whose `at` is greater than `at` (list sorted by `at`). */
