@@ -1,0 +1,130 @@
+/**
+ * @module run
+ * Entry of `npm run bench` (never part of `npm test`): runs the engine bench, then the ingest bench
+ * when bench/ingest-bench.ts exists (loaded by a guarded dynamic import, so the bench runs without
+ * it), prints one table per bench and a final summary line `bench: N targets met, M missed`.
+ * A missed target is printed as MISSED but never changes the exit code, since timings depend on
+ * the machine and its load (printed in the header so readers can judge the figures).
+ */
+import { existsSync } from "node:fs";
+import { availableParallelism, cpus, loadavg } from "node:os";
+import { fileURLToPath } from "node:url";
+import { type BenchRow, benchEngine } from "./engine-bench.js";
+
+interface TableRow {
+  readonly name: string;
+  readonly value: number;
+  readonly unit: string;
+  readonly target?: string;
+  readonly met?: boolean;
+  readonly note?: string;
+}
+
+/** Narrows one row handed over by another bench module (`{ name, value, unit, note? }`). */
+function asRow(value: unknown): TableRow | null {
+  if (typeof value !== "object" || value === null) return null;
+  const r = value as Record<string, unknown>;
+  if (typeof r.name !== "string" || typeof r.value !== "number" || typeof r.unit !== "string") {
+    return null;
+  }
+  const note = typeof r.note === "string" ? r.note : undefined;
+  // A row counts as a target when it says so: `met: boolean`, or a note that starts PASS/MISSED.
+  let met = typeof r.met === "boolean" ? r.met : undefined;
+  if (met === undefined && note !== undefined && /^(PASS|MISSED)\b/.test(note)) {
+    met = note.startsWith("PASS");
+  }
+  return {
+    name: r.name,
+    value: r.value,
+    unit: r.unit,
+    ...(typeof r.target === "string" ? { target: r.target } : {}),
+    ...(met !== undefined ? { met } : {}),
+    ...(note !== undefined ? { note } : {}),
+  };
+}
+
+function formatValue(value: number): string {
+  if (!Number.isFinite(value)) return String(value);
+  const size = Math.abs(value);
+  if (size === 0) return "0";
+  if (size >= 1000) return value.toFixed(0);
+  if (size >= 1) return value.toFixed(2);
+  if (size >= 1e-3) return value.toFixed(4);
+  return value.toExponential(2);
+}
+
+function status(row: TableRow): string {
+  if (row.met === undefined) return "";
+  return row.met ? "PASS" : "MISSED";
+}
+
+function printTable(title: string, rows: readonly TableRow[]): void {
+  const header = ["name", "value", "unit", "target", "status", "note"];
+  const cells = rows.map((row) => [
+    row.name,
+    formatValue(row.value),
+    row.unit,
+    row.target ?? "",
+    status(row),
+    row.note ?? "",
+  ]);
+  const widths = header.map((h, c) => Math.max(h.length, ...cells.map((line) => line[c].length)));
+  const line = (parts: readonly string[]) =>
+    parts
+      .map((part, c) => (c === 1 ? part.padStart(widths[c]) : part.padEnd(widths[c])))
+      .join("  ")
+      .trimEnd();
+  console.log(`\n${title}`);
+  console.log(line(header));
+  console.log(line(widths.map((w) => "-".repeat(w))));
+  for (const parts of cells) console.log(line(parts));
+}
+
+async function ingestRows(): Promise<TableRow[] | null> {
+  const url = new URL("./ingest-bench.ts", import.meta.url);
+  if (!existsSync(fileURLToPath(url))) return null;
+  const loaded: unknown = await import(url.href);
+  const bench =
+    typeof loaded === "object" && loaded !== null
+      ? (loaded as Record<string, unknown>).benchIngest
+      : undefined;
+  if (typeof bench !== "function") {
+    throw new Error("bench/ingest-bench.ts does not export benchIngest()");
+  }
+  const result: unknown = await bench();
+  if (!Array.isArray(result)) throw new Error("benchIngest() did not return an array of rows");
+  return result.map((value, i) => {
+    const row = asRow(value);
+    if (row === null) throw new Error(`benchIngest() row ${i} lacks name, value or unit`);
+    return row;
+  });
+}
+
+async function main(): Promise<void> {
+  const [load1] = loadavg();
+  console.log(
+    `plumbline bench — node ${process.version}, ${cpus()[0]?.model ?? "cpu"} × ${availableParallelism()}, load average ${load1.toFixed(2)} at start`,
+  );
+  const tables: [string, TableRow[]][] = [];
+  const engine: BenchRow[] = await benchEngine();
+  tables.push(["engine (medians after warm-up; ms unless noted)", engine]);
+  printTable(...tables[0]);
+  const ingest = await ingestRows();
+  if (ingest === null) {
+    console.log("\ningest: bench/ingest-bench.ts not present, skipped");
+  } else {
+    tables.push(["ingest", ingest]);
+    printTable("ingest", ingest);
+  }
+  const all = tables.flatMap(([, rows]) => rows);
+  const met = all.filter((row) => row.met === true).length;
+  const missed = all.filter((row) => row.met === false);
+  const [loadEnd] = loadavg();
+  console.log(`\nload average ${loadEnd.toFixed(2)} at end`);
+  if (missed.length > 0) {
+    console.log(`MISSED: ${missed.map((row) => row.name.trim()).join("; ")}`);
+  }
+  console.log(`bench: ${met} targets met, ${missed.length} missed`);
+}
+
+await main();
