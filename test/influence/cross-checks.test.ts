@@ -1,5 +1,5 @@
 import { DirectedGraph } from "graphology";
-import pagerank from "graphology-metrics/centrality/pagerank.js";
+import pagerankModule from "graphology-metrics/centrality/pagerank.js";
 import { EigenvalueDecomposition, Matrix } from "ml-matrix";
 import { describe, expect, it } from "vitest";
 import { isPlumblineError } from "../../src/domain/errors.js";
@@ -16,7 +16,9 @@ import {
 } from "../../src/influence/second-eigenvalue.js";
 import { stationaryVector } from "../../src/influence/stationary-vector.js";
 import { createSeededRng } from "../../src/ports/rng.js";
-import { countsFromDense, denseFromCounts, randomDenseCounts } from "./fixtures.js";
+import { countsFromDense, denseFromCounts, interop, randomDenseCounts } from "./fixtures.js";
+
+const pagerank = interop(pagerankModule);
 
 describe("attention rows (DESIGN.md §4.4)", () => {
   it("point estimate: A_ij = (C_ij + b)/(c_i + β), even rows, and sparse products match dense", () => {

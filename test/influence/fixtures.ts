@@ -133,3 +133,12 @@ export function quantile(sorted: readonly number[], p: number): number {
   const hi = Math.min(lo + 1, sorted.length - 1);
   return sorted[lo] + (h - lo) * (sorted[hi] - sorted[lo]);
 }
+
+/**
+ * CommonJS packages (graphology-generators, graphology-metrics): Node's ESM loader hands over
+ * `module.exports`, while their typings describe it as `.default`; accept both.
+ */
+export function interop<T>(module: { default: T }): T {
+  const loose = module as unknown as { default?: T };
+  return loose.default ?? (module as unknown as T);
+}

@@ -1,5 +1,5 @@
 import { UndirectedGraph } from "graphology";
-import karateClub from "graphology-generators/social/karate-club.js";
+import karateModule from "graphology-generators/social/karate-club.js";
 import { describe, expect, it } from "vitest";
 import {
   denseTransition,
@@ -13,7 +13,7 @@ import {
 } from "../../src/influence/second-eigenvalue.js";
 import { stationaryVector } from "../../src/influence/stationary-vector.js";
 import { createSeededRng } from "../../src/ports/rng.js";
-import { countsFromDense } from "./fixtures.js";
+import { countsFromDense, interop } from "./fixtures.js";
 
 function shares(matrix: number[][], selfWeight = 0): number[] {
   return [...stationaryVector(rowsFromDense(matrix), { selfWeight }).vector];
@@ -143,11 +143,11 @@ describe("textbook chains", () => {
   it("Zachary's karate club as mutual equal attention: s = degree share", () => {
     // Zachary 1977, "An information flow model for conflict and fission in small groups",
     // J. Anthropological Research 33:452–473, via graphology-generators' social/karate-club.
-    const graph = karateClub(UndirectedGraph);
+    const graph = interop(karateModule)(UndirectedGraph);
     expect(graph.order).toBe(34);
     expect(graph.size).toBe(78);
     const ties = Array.from({ length: 34 }, () => new Array<number>(34).fill(0));
-    graph.forEachEdge((_edge, _attributes, source, target) => {
+    graph.forEachEdge((_edge: string, _attributes: unknown, source: string, target: string) => {
       ties[Number(source)][Number(target)] = 1;
       ties[Number(target)][Number(source)] = 1;
     });
