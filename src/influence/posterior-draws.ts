@@ -72,8 +72,10 @@ function drawInto(
     }
     const restWeight = Math.exp(logRest - max);
     total += restWeight;
-    for (let k = lo; k < hi; k++) values[k] /= total;
-    rest[i] = unobserved > 0 ? restWeight / total / unobserved : 0;
+    // rest_i applies to every j ≠ i, so observed cells carry it as a negative correction.
+    const spread = unobserved > 0 ? restWeight / total / unobserved : 0;
+    for (let k = lo; k < hi; k++) values[k] = values[k] / total - spread;
+    rest[i] = spread;
   }
 }
 

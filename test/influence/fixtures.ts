@@ -59,17 +59,20 @@ interface JStatGamma {
   cdf(x: number, shape: number, scale: number): number;
 }
 
-function isJStat(value: unknown): value is { jStat: { gamma: JStatGamma } } {
-  if (typeof value !== "object" || value === null || !("jStat" in value)) return false;
-  const inner: unknown = value.jStat;
-  return typeof inner === "object" && inner !== null && "gamma" in inner;
+function hasGamma(value: unknown): value is { gamma: JStatGamma } {
+  if ((typeof value !== "object" && typeof value !== "function") || value === null) return false;
+  if (!("gamma" in value)) return false;
+  const gamma: unknown = value.gamma;
+  return (
+    (typeof gamma === "function" || typeof gamma === "object") && gamma !== null && "cdf" in gamma
+  );
 }
 
 /** jStat's gamma distribution, loaded through require and narrowed (jstat has no types). */
 export function loadJStatGamma(): JStatGamma {
   const loaded: unknown = createRequire(import.meta.url)("jstat");
-  if (!isJStat(loaded)) throw new Error("jstat did not load as expected");
-  return loaded.jStat.gamma;
+  if (!hasGamma(loaded)) throw new Error("jstat did not load as expected");
+  return loaded.gamma;
 }
 
 // Polygamma by upward recurrence to x ≥ 12 and the asymptotic series of Abramowitz & Stegun

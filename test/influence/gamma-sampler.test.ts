@@ -1,0 +1,118 @@
+import { describe, expect, it } from "vitest";
+import { sampleGamma, sampleLogGamma } from "../../src/influence/gamma-sampler.js";
+import { drawAttentionRows } from "../../src/influence/posterior-draws.js";
+import { createSeededRng } from "../../src/ports/rng.js";
+import { countsFromDense, digamma, loadJStatGamma, meanVariance, polygamma } from "./fixtures.js";
+
+const N = 200_000;
+
+describe("polygamma reference (fixtures)", () => {
+  it("matches the tabulated constants", () => {
+    // Abramowitz & Stegun 1964, Handbook of Mathematical Functions, 6.3.2, 6.3.3, 6.4.2, 6.4.4.
+    const euler = 0.5772156649015329;
+    expect(Math.abs(digamma(1) + euler)).toBeLessThan(1e-13);
+    expect(Math.abs(digamma(0.5) + euler + 2 * Math.LN2)).toBeLessThan(1e-13);
+    expect(Math.abs(polygamma(1, 1) - Math.PI ** 2 / 6)).toBeLessThan(1e-13);
+    expect(Math.abs(polygamma(1, 0.5) - Math.PI ** 2 / 2)).toBeLessThan(1e-13);
+    expect(Math.abs(polygamma(3, 1) - Math.PI ** 4 / 15)).toBeLessThan(1e-12);
+  });
+});
+
+describe("gamma sampler (Marsaglia & Tsang 2000)", () => {
+  for (const shape of [1e-3, 0.05, 0.3, 1, 2.5, 40]) {
+    it(`Gamma(${shape}, 1) has mean and variance ${shape}`, () => {
+      // Johnson, Kotz & Balakrishnan 1994, Continuous Univariate Distributions vol. 1, ch. 17:
+      // E G = Var G = a; central fourth moment 3a² + 6a gives the variance's standard error.
+      const rng = createSeededRng(Math.round(shape * 1e4) + 1);
+      const xs = new Float64Array(N);
+      for (let k = 0; k < N; k++) xs[k] = sampleGamma(shape, rng);
+      const { mean, variance } = meanVariance(xs);
+      expect(Math.abs(mean - shape)).toBeLessThan(5 * Math.sqrt(shape / N));
+      const seVariance = Math.sqrt((3 * shape ** 2 + 6 * shape - shape ** 2) / N);
+      expect(Math.abs(variance - shape)).toBeLessThan(5 * seVariance);
+    });
+  }
+
+  for (const shape of [1e-4, 1e-3, 0.05, 0.3]) {
+    it(`log Gamma(${shape}) has mean ψ(a) and variance ψ'(a), without underflow`, () => {
+      // Johnson, Kotz & Balakrishnan 1994, ch. 17: log G has cumulants ψ(a), ψ'(a), ψ''(a), ψ'''(a).
+      const rng = createSeededRng(Math.round(shape * 1e5) + 11);
+      const xs = new Float64Array(N);
+      for (let k = 0; k < N; k++) xs[k] = sampleLogGamma(shape, rng);
+      expect(xs.every((v) => Number.isFinite(v))).toBe(true);
+      const { mean, variance } = meanVariance(xs);
+      const trigamma = polygamma(1, shape);
+      expect(Math.abs(mean - digamma(shape))).toBeLessThan(5 * Math.sqrt(trigamma / N));
+      const fourth = polygamma(3, shape) + 3 * trigamma ** 2; // central fourth moment
+      const seVariance = Math.sqrt((fourth - trigamma ** 2) / N);
+      expect(Math.abs(variance - trigamma)).toBeLessThan(5 * seVariance);
+    });
+  }
+
+  for (const shape of [0.3, 1, 2.5, 40]) {
+    it(`passes a Kolmogorov–Smirnov test against jstat's Gamma(${shape}) CDF`, () => {
+      // Reference: jstat 1.9 gamma.cdf; KS critical value 1.95/√n at α = 0.001 (Massey 1951,
+      // "The Kolmogorov–Smirnov test for goodness of fit", JASA 46:68–78, from memory).
+      const gamma = loadJStatGamma();
+      const rng = createSeededRng(Math.round(shape * 100) + 5);
+      const count = 20_000;
+      const xs = Array.from({ length: count }, () => sampleGamma(shape, rng)).sort((a, b) => a - b);
+      let d = 0;
+      xs.forEach((x, k) => {
+        const f = gamma.cdf(x, shape, 1);
+        d = Math.max(d, Math.abs(f - k / count), Math.abs((k + 1) / count - f));
+      });
+      expect(d).toBeLessThan(1.95 / Math.sqrt(count));
+    });
+  }
+
+  it("rejects a non-positive shape", () => {
+    const rng = createSeededRng(1);
+    expect(() => sampleLogGamma(0, rng)).toThrow(RangeError);
+    expect(() => sampleLogGamma(Number.NaN, rng)).toThrow(RangeError);
+  });
+});
+
+describe("Dirichlet rows of the posterior draw", () => {
+  it("match E = α_j/α_0 and Var = E(1−E)/(α_0+1), unobserved cells in aggregate", () => {
+    // Noé & Chodera 2014, "Uncertainty Estimation", eqs. 5.1–5.2, in Bowman, Pande & Noé (eds.),
+    // An Introduction to Markov State Models, Springer; the unobserved cells' total is
+    // Beta(Σα_unobserved, ·) by the aggregation property of the Dirichlet (common practice).
+    const n = 6;
+    const beta = 1;
+    const b = beta / (n - 1);
+    const dense = Array.from({ length: n }, () => new Array<number>(n).fill(0));
+    dense[0][1] = 3;
+    dense[0][2] = 0.5;
+    dense[0][4] = 7;
+    const counts = countsFromDense(dense);
+    const alpha = [0, 3 + b, 0.5 + b, b, 7 + b, b];
+    const alpha0 = alpha.reduce((x, y) => x + y, 0);
+    const draws = 40_000;
+    const cells = Array.from({ length: n }, () => new Float64Array(draws));
+    const unobservedTotal = new Float64Array(draws);
+    const rng = createSeededRng(2014);
+    for (let k = 0; k < draws; k++) {
+      const rows = drawAttentionRows(counts, beta, rng);
+      for (let q = rows.rowPtr[0]; q < rows.rowPtr[1]; q++) {
+        cells[rows.colIdx[q]][k] = rows.values[q] + rows.rest[0];
+      }
+      unobservedTotal[k] = 2 * rows.rest[0];
+      cells[3][k] = rows.rest[0];
+      cells[5][k] = rows.rest[0];
+    }
+    const check = (xs: Float64Array, a: number): void => {
+      const e = a / alpha0;
+      const v = (e * (1 - e)) / (alpha0 + 1);
+      const { mean, variance } = meanVariance(xs);
+      expect(Math.abs(mean - e)).toBeLessThan(5 * Math.sqrt(v / draws));
+      expect(Math.abs(variance - v) / v).toBeLessThan(0.05);
+    };
+    check(cells[1], alpha[1]);
+    check(cells[2], alpha[2]);
+    check(cells[4], alpha[4]);
+    check(unobservedTotal, alpha[3] + alpha[5]);
+    // Each unobserved cell keeps the Dirichlet mean α_j/α_0 (the share is spread evenly).
+    expect(Math.abs(meanVariance(cells[3]).mean - b / alpha0)).toBeLessThan(5e-4);
+  });
+});
