@@ -68,30 +68,25 @@ async function storeMessage(ctx: ApplyContext, event: MessageEvent): Promise<voi
   const { tx, memberKey } = ctx;
   if ((await tx.findMessage(event.channel, event.id)) !== null) return; // first wins
   const author = memberKey(event.author);
-  if (!consenting(await tx.consentAt(event.channel, author, event.at))) return;
   let parentAuthor: string | null =
     event.parentAuthor === undefined ? null : memberKey(event.parentAuthor);
   if (parentAuthor === null && event.parent !== undefined) {
     parentAuthor = (await tx.findMessage(event.channel, event.parent))?.author ?? null;
   }
-  if (
-    parentAuthor !== null &&
-    (parentAuthor === author ||
-      !consenting(await tx.consentAt(event.channel, parentAuthor, event.at)))
-  ) {
-    parentAuthor = null;
-  }
+  if (parentAuthor === author) parentAuthor = null;
+  const mentions = [...new Set((event.mentions ?? []).map(memberKey))].filter((m) => m !== author);
+  // One consent lookup for the author, the parent's author and the mentioned, all at `at`.
+  const asked = parentAuthor === null ? [author, ...mentions] : [author, parentAuthor, ...mentions];
+  const levels = await tx.consentAtMany(event.channel, asked, event.at);
+  if (!consenting(levels[0])) return;
+  const offset = parentAuthor === null ? 1 : 2;
+  if (parentAuthor !== null && !consenting(levels[1])) parentAuthor = null;
   await tx.insertMessage(event.channel, {
     id: event.id,
     author,
     at: event.at,
     parentAuthor,
-    mentions: await filterMentions(ctx, {
-      channel: event.channel,
-      mentions: (event.mentions ?? []).map(memberKey),
-      author,
-      at: event.at,
-    }),
+    mentions: mentions.filter((_, i) => consenting(levels[i + offset])),
     deleted: false,
   });
 }
@@ -101,10 +96,7 @@ async function filterMentions(
   ctx: ApplyContext,
   args: { channel: string; mentions: readonly string[]; author: string; at: number },
 ): Promise<string[]> {
-  const kept: string[] = [];
-  for (const member of new Set(args.mentions)) {
-    if (member === args.author) continue;
-    if (consenting(await ctx.tx.consentAt(args.channel, member, args.at))) kept.push(member);
-  }
-  return kept;
+  const candidates = [...new Set(args.mentions)].filter((m) => m !== args.author);
+  const levels = await ctx.tx.consentAtMany(args.channel, candidates, args.at);
+  return candidates.filter((_, i) => consenting(levels[i]));
 }

@@ -37,6 +37,8 @@ export interface StoreTx {
   touchChannel(channel: string, at: number): Promise<void>;
   /** Rule 1: level of the latest applied change with `at` ≤ the given time; `off` when none. */
   consentAt(channel: string, member: string, at: number): Promise<ConsentLevel>;
+  /** `consentAt` for several members at one time, in the order given (one query). */
+  consentAtMany(channel: string, members: readonly string[], at: number): Promise<ConsentLevel[]>;
   /** Appends a consent change (applied order is kept). */
   addConsent(channel: string, change: ConsentChange): Promise<void>;
   /** Keeps (string) or forgets (null) the member's platform id in the channel. */

@@ -55,6 +55,19 @@ function undoSet<K, V>(map: Map<K, V>, key: K, undo: (() => void)[]): void {
   });
 }
 
+/** Rule 1 over changes in applied order: `>=` lets the later of equal times win. */
+function levelAt(changes: readonly ConsentChange[], member: string, at: number): ConsentLevel {
+  let level: ConsentLevel = "off";
+  let best = Number.NEGATIVE_INFINITY;
+  for (const change of changes) {
+    if (change.member === member && change.at <= at && change.at >= best) {
+      best = change.at;
+      level = change.level;
+    }
+  }
+  return level;
+}
+
 export function memoryTx(state: MemoryState, undo: (() => void)[]): StoreTx {
   const channel = (id: string): MemoryChannel => {
     let c = state.channels.get(id);
@@ -82,15 +95,11 @@ export function memoryTx(state: MemoryState, undo: (() => void)[]): StoreTx {
       });
     },
     async consentAt(id, member, at): Promise<ConsentLevel> {
-      let level: ConsentLevel = "off";
-      let best = Number.NEGATIVE_INFINITY;
-      for (const change of state.channels.get(id)?.consent ?? []) {
-        if (change.member === member && change.at <= at && change.at >= best) {
-          best = change.at;
-          level = change.level;
-        }
-      }
-      return level;
+      return levelAt(state.channels.get(id)?.consent ?? [], member, at);
+    },
+    async consentAtMany(id, members, at): Promise<ConsentLevel[]> {
+      const changes = state.channels.get(id)?.consent ?? [];
+      return members.map((member) => levelAt(changes, member, at));
     },
     async addConsent(id, change) {
       const c = channel(id);

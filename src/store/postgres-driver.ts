@@ -9,7 +9,7 @@
  */
 import pg from "pg";
 import { mapDriverError } from "./driver-errors.js";
-import type { SqlConnection, SqlDriver, SqlRow, SqlValue } from "./sql-driver.js";
+import type { SqlConnection, SqlDriver, SqlValue } from "./sql-driver.js";
 
 /** Arbitrary fixed id of the advisory lock taken while creating a schema. */
 const SCHEMA_LOCK = 7_305_113;
@@ -35,7 +35,7 @@ export function assertSchemaName(schema: string): string {
 export class PostgresDriver implements SqlDriver {
   readonly dialect = "postgres" as const;
   private readonly pool: pg.Pool;
-  private readonly numbered = new Map<string, string>();
+  private readonly numbered = new Map<string, { name: string; text: string }>();
   private closed = false;
 
   constructor(options: PostgresDriverOptions) {
@@ -85,10 +85,9 @@ export class PostgresDriver implements SqlDriver {
       throw mapDriverError(error);
     }
     const conn: SqlConnection = {
-      all: async (sql, params = []) =>
-        (await client.query(this.number(sql), params as SqlValue[])).rows as SqlRow[],
+      all: async (sql, params = []) => (await client.query(this.statement(sql, params))).rows,
       run: async (sql, params = []) =>
-        (await client.query(this.number(sql), params as SqlValue[])).rowCount ?? 0,
+        (await client.query(this.statement(sql, params))).rowCount ?? 0,
     };
     let broken: Error | undefined;
     try {
@@ -116,13 +115,17 @@ export class PostgresDriver implements SqlDriver {
     await this.pool.end();
   }
 
-  private number(sql: string): string {
-    let text = this.numbered.get(sql);
-    if (text === undefined) {
+  /** A named (server-side prepared, cached per connection by pg) statement for `sql`. */
+  private statement(sql: string, params: readonly SqlValue[]): pg.QueryConfig<SqlValue[]> {
+    let prepared = this.numbered.get(sql);
+    if (prepared === undefined) {
       let i = 0;
-      text = sql.replace(/\?/g, () => `$${++i}`);
-      this.numbered.set(sql, text);
+      prepared = {
+        name: `plumbline_${this.numbered.size}`,
+        text: sql.replace(/\?/g, () => `$${++i}`),
+      };
+      this.numbered.set(sql, prepared);
     }
-    return text;
+    return { ...prepared, values: params as SqlValue[] };
   }
 }

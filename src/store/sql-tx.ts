@@ -42,6 +42,22 @@ export function sqlTx(conn: SqlConnection): StoreTx {
       const level = rows[0]?.level;
       return isConsentLevel(level) ? level : "off";
     },
+    async consentAtMany(channel, members, at): Promise<ConsentLevel[]> {
+      if (members.length === 0) return [];
+      const distinct = [...new Set(members)];
+      const rows = await conn.all(
+        `SELECT member, level FROM consent_change
+         WHERE channel = ? AND at <= ? AND member IN (${distinct.map(() => "?").join(", ")})
+         ORDER BY member, at DESC, seq DESC`,
+        [channel, at, ...distinct],
+      );
+      const levels = new Map<string, ConsentLevel>();
+      for (const row of rows) {
+        const member = String(row.member);
+        if (!levels.has(member) && isConsentLevel(row.level)) levels.set(member, row.level);
+      }
+      return members.map((m) => levels.get(m) ?? "off");
+    },
     async addConsent(channel, change: ConsentChange) {
       await conn.run(
         "INSERT INTO consent_change (channel, member, at, level, notice) VALUES (?, ?, ?, ?, ?)",
@@ -116,11 +132,11 @@ async function insertMentions(
   id: string,
   mentions: readonly string[],
 ): Promise<void> {
-  for (const target of mentions) {
-    await conn.run(
-      `INSERT INTO message_target (channel, message_id, kind, target) VALUES (?, ?, 'mention', ?)
-       ON CONFLICT (channel, message_id, kind, target) DO NOTHING`,
-      [channel, id, target],
-    );
-  }
+  const targets = [...new Set(mentions)];
+  if (targets.length === 0) return;
+  await conn.run(
+    `INSERT INTO message_target (channel, message_id, kind, target) VALUES
+     ${targets.map(() => "(?, ?, 'mention', ?)").join(", ")}`,
+    targets.flatMap((target) => [channel, id, target]),
+  );
 }
