@@ -1,0 +1,52 @@
+/**
+ * @module scheduler-deps
+ * What the composition root hands the scheduler: the store, the platform, the clock, the logger,
+ * this replica's id and the compose functions (the analysis and the message builders live
+ * elsewhere), plus the scheduler's timing constants and the message ids it records when nothing
+ * reached the channel.
+ */
+import type { ChannelSettings } from "../domain/channel-settings.js";
+import { DAY_MS } from "../domain/settings.js";
+import type { ChatPlatform, OutgoingMessage } from "../ports/chat-platform.js";
+import type { Clock } from "../ports/clock.js";
+import type { Logger } from "../ports/logger.js";
+import type { Store } from "../ports/store.js";
+
+/** Default claim lease: a claim unfinished this long after it was taken is a miss. */
+export const DEFAULT_LEASE_MS = 15 * 60_000;
+/** A digest slot this late or later is recorded as missed instead of posted. */
+export const LATE_LIMIT_MS = DAY_MS;
+/** How far back each pass looks for digest slots (a week and a day: every weekly slot is seen). */
+export const DEFAULT_LOOKBACK_MS = 8 * DAY_MS;
+/** Message id recorded when the compose function had nothing to post. */
+export const NOTHING_POSTED = "(nothing posted)";
+/** Message id recorded for a note delivered privately to the facilitators. */
+export const FACILITATORS_DELIVERY = "(sent to facilitators)";
+
+/** A composed balance note and where it goes. */
+export interface NoteComposition {
+  readonly message: OutgoingMessage;
+  readonly audience: "channel" | "facilitators";
+  /** Platform id of the member the note concerns, stored with the claim (erased with them). */
+  readonly member?: string | null;
+  /** Runs once the note is delivered and its claim completed, e.g. `NoteDecision.commit`. */
+  readonly onPosted?: () => Promise<void>;
+}
+
+export interface SchedulerDeps {
+  readonly store: Store;
+  readonly platform: ChatPlatform;
+  readonly clock: Clock;
+  readonly logger: Logger;
+  /** This replica's name in claim rows (config `replicaId`). */
+  readonly replicaId: string;
+  readonly readSettings: (channel: string) => Promise<ChannelSettings>;
+  /** The digest for the slot at `slotAt` (epoch ms); null = nothing to post. */
+  readonly composeDigest: (channel: string, slotAt: number) => Promise<OutgoingMessage | null>;
+  /** Runs the analysis and the note policy; null = no note due. */
+  readonly composeNote: (channel: string, now: number) => Promise<NoteComposition | null>;
+  /** Delivers a note to the channel's facilitators privately. */
+  readonly sendToFacilitators?: (channel: string, message: OutgoingMessage) => Promise<void>;
+  readonly leaseMs?: number;
+  readonly lookbackMs?: number;
+}

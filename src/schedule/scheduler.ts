@@ -1,0 +1,272 @@
+/**
+ * @module scheduler
+ * Decides when digests and balance notes are posted and which replica posts them (DESIGN.md §8).
+ * Each pass (`tick`) walks the registered channels: a digest slot (the channel's weekday and time in
+ * its own zone) that has come round is claimed through the store's claim row, keyed (channel,
+ * "digest", local slot date-time), composed and posted by the one replica whose insert won; notes
+ * are evaluated once per UTC hour and claimed per hour the same way. The poster records the
+ * platform's message id; a claim left unfinished past its lease is logged as a miss and never
+ * posted again, because the first post may have reached the channel (the platforms offer no
+ * idempotency key). A slot found 24 hours or more late is claimed as missed, not posted. Time comes
+ * from the injected clock; only `start` uses real timers.
+ */
+import type { ChannelSettings } from "../domain/channel-settings.js";
+import { isPlumblineError, PlumblineError } from "../domain/errors.js";
+import type { OutgoingMessage } from "../ports/chat-platform.js";
+import type { ClaimKey } from "../ports/store.js";
+import { digestSlotsBetween } from "./digest-slots.js";
+import {
+  DEFAULT_LEASE_MS,
+  DEFAULT_LOOKBACK_MS,
+  FACILITATORS_DELIVERY,
+  LATE_LIMIT_MS,
+  NOTHING_POSTED,
+  type SchedulerDeps,
+} from "./scheduler-deps.js";
+import { digestPeriod, HOUR_MS, hourStart, notePeriod } from "./slot-period.js";
+import type { PostKind, SkipReason, SlotRef, TickReport } from "./tick-report.js";
+
+export class Scheduler {
+  private readonly deps: SchedulerDeps;
+  private readonly leaseMs: number;
+  private readonly lookbackMs: number;
+  /** Per channel, the UTC hour whose note this replica has evaluated. */
+  private readonly noteHours = new Map<string, number>();
+  private timer: ReturnType<typeof setInterval> | null = null;
+  private running: Promise<void> | null = null;
+
+  constructor(deps: SchedulerDeps) {
+    const leaseMs = deps.leaseMs ?? DEFAULT_LEASE_MS;
+    const lookbackMs = deps.lookbackMs ?? DEFAULT_LOOKBACK_MS;
+    if (!(leaseMs > 0) || !(lookbackMs >= LATE_LIMIT_MS)) {
+      throw new PlumblineError(
+        "ARG_BAD_VALUE",
+        `scheduler leaseMs must be > 0 and lookbackMs ≥ ${LATE_LIMIT_MS} (got ${leaseMs}, ${lookbackMs})`,
+        { hint: "leave leaseMs and lookbackMs unset to use the defaults" },
+      );
+    }
+    this.deps = deps;
+    this.leaseMs = leaseMs;
+    this.lookbackMs = lookbackMs;
+  }
+
+  /** One pass over every channel: post what is due, record what was missed. */
+  async tick(): Promise<TickReport> {
+    const at = this.deps.clock.now();
+    const report: TickReport = { at, posted: [], skipped: [], missed: [], failed: [] };
+    const tooLate = new Set<string>();
+    const channels = (await this.deps.store.listChannels()).map((c) => c.channel).sort();
+    for (const channel of channels) {
+      let settings: ChannelSettings;
+      try {
+        settings = await this.deps.readSettings(channel);
+      } catch (error) {
+        this.fail(report, { channel, kind: "settings", period: null }, error);
+        continue;
+      }
+      await this.runDigests(channel, settings, at, report, tooLate);
+      await this.runNote(channel, settings, at, report);
+    }
+    for (const claim of await this.deps.store.markMissedClaims(this.deps.clock.now())) {
+      const reason = tooLate.has(claimId(claim)) ? "too-late" : "lease-expired";
+      const entry = { ...pick(claim), claimedBy: claim.claimedBy, reason } as const;
+      report.missed.push(entry);
+      this.deps.logger.warn({ ...entry, replica: this.deps.replicaId }, "scheduled post missed");
+    }
+    return report;
+  }
+
+  /** Runs `tick` now and every `intervalMs` (at most an hour) until `stop`. */
+  start(intervalMs: number): void {
+    if (!(intervalMs > 0 && intervalMs <= HOUR_MS)) {
+      throw new PlumblineError(
+        "ARG_BAD_VALUE",
+        `scheduler interval ${intervalMs} ms is not in (0, 1 h]`,
+        {
+          hint: "start the scheduler with an interval such as 60000 (one minute)",
+        },
+      );
+    }
+    if (this.timer !== null) return;
+    this.timer = setInterval(() => this.runGuarded(), intervalMs);
+    this.runGuarded();
+  }
+
+  /** Stops the timer and waits for a pass in progress. */
+  async stop(): Promise<void> {
+    if (this.timer !== null) clearInterval(this.timer);
+    this.timer = null;
+    await this.running;
+  }
+
+  private runGuarded(): void {
+    if (this.running !== null) return;
+    this.running = this.tick()
+      .then(
+        () => undefined,
+        (error: unknown) =>
+          this.deps.logger.error(
+            { error: errorName(error), detail: errorDetail(error) },
+            "scheduler pass failed",
+          ),
+      )
+      .finally(() => {
+        this.running = null;
+      });
+  }
+
+  private async runDigests(
+    channel: string,
+    settings: ChannelSettings,
+    at: number,
+    report: TickReport,
+    tooLate: Set<string>,
+  ): Promise<void> {
+    if (settings.digest === "off") return;
+    let slots: number[];
+    try {
+      slots = digestSlotsBetween({
+        schedule: settings.digest,
+        timezone: settings.timezone,
+        from: at - this.lookbackMs,
+        to: at,
+      });
+    } catch (error) {
+      this.fail(report, { channel, kind: "digest", period: null }, error);
+      return;
+    }
+    for (const slotAt of slots) {
+      const period = digestPeriod(slotAt, settings.timezone);
+      const ref: SlotRef = { channel, kind: "digest", period };
+      try {
+        if ((await this.deps.store.getClaim(ref)) !== null) continue;
+        if (at - slotAt >= LATE_LIMIT_MS) {
+          // A lease that ends before the claim began: markMissedClaims records it in this pass.
+          if (await this.claim(ref, -1, null)) tooLate.add(claimId(ref));
+        } else if (await this.claim(ref, this.leaseMs, null)) {
+          await this.deliver(report, ref, slotAt, "channel", () =>
+            this.deps.composeDigest(channel, slotAt),
+          );
+        } else {
+          this.skip(report, ref, "claimed-elsewhere");
+        }
+      } catch (error) {
+        this.fail(report, ref, error);
+      }
+    }
+  }
+
+  private async runNote(
+    channel: string,
+    settings: ChannelSettings,
+    at: number,
+    report: TickReport,
+  ): Promise<void> {
+    if (settings.notes === "off") return;
+    const hour = hourStart(at);
+    if (this.noteHours.get(channel) === hour) return;
+    this.noteHours.set(channel, hour);
+    const ref: SlotRef = { channel, kind: "note", period: notePeriod(at) };
+    try {
+      if ((await this.deps.store.getClaim(ref)) !== null) return;
+      const note = await this.deps.composeNote(channel, at);
+      if (note === null) return;
+      if (note.audience === "facilitators" && this.deps.sendToFacilitators === undefined) {
+        this.skip(report, ref, "no-facilitator-route");
+        return;
+      }
+      if (!(await this.claim(ref, this.leaseMs, note.member ?? null))) {
+        this.skip(report, ref, "claimed-elsewhere");
+        return;
+      }
+      const posted = await this.deliver(report, ref, at, note.audience, async () => note.message);
+      if (posted) await note.onPosted?.();
+    } catch (error) {
+      this.fail(report, ref, error);
+    }
+  }
+
+  /** Composes and delivers a claimed slot, then completes its claim. True when delivered. */
+  private async deliver(
+    report: TickReport,
+    ref: SlotRef,
+    slotAt: number,
+    audience: "channel" | "facilitators",
+    compose: () => Promise<OutgoingMessage | null>,
+  ): Promise<boolean> {
+    const message = await compose();
+    if (message === null) {
+      await this.complete(ref, NOTHING_POSTED);
+      this.skip(report, ref, "nothing-to-post");
+      return false;
+    }
+    let messageId: string;
+    if (audience === "facilitators" && this.deps.sendToFacilitators !== undefined) {
+      await this.deps.sendToFacilitators(ref.channel, message);
+      messageId = FACILITATORS_DELIVERY;
+    } else {
+      messageId = (await this.deps.platform.postToChannel(ref.channel, message)).messageId;
+    }
+    if (!(await this.complete(ref, messageId))) {
+      this.deps.logger.warn({ ...ref, messageId }, "posted, but the claim was no longer ours");
+    }
+    report.posted.push({ ...ref, slotAt, audience, messageId });
+    this.deps.logger.info({ ...ref, audience, messageId, replica: this.deps.replicaId }, "posted");
+    return true;
+  }
+
+  private claim(ref: SlotRef, leaseMs: number, member: string | null): Promise<boolean> {
+    return this.deps.store.claimPost({
+      ...ref,
+      claimedBy: this.deps.replicaId,
+      now: this.deps.clock.now(),
+      leaseMs,
+      member,
+    });
+  }
+
+  private complete(ref: SlotRef, platformMessageId: string): Promise<boolean> {
+    return this.deps.store.completePost({
+      ...ref,
+      claimedBy: this.deps.replicaId,
+      platformMessageId,
+    });
+  }
+
+  private skip(report: TickReport, ref: SlotRef, reason: SkipReason): void {
+    report.skipped.push({ ...ref, reason });
+    this.deps.logger.debug({ ...ref, reason }, "scheduled post skipped");
+  }
+
+  private fail(
+    report: TickReport,
+    ref: { channel: string; kind: PostKind | "settings"; period: string | null },
+    error: unknown,
+  ): void {
+    const entry = { ...ref, error: errorName(error) };
+    report.failed.push(entry);
+    // A claimed slot that fails stays unfinished and becomes a miss after its lease: the post may
+    // have reached the platform, so it is never retried.
+    this.deps.logger.error(
+      { ...entry, detail: errorDetail(error), replica: this.deps.replicaId },
+      "scheduled post failed",
+    );
+  }
+}
+
+function claimId(key: ClaimKey): string {
+  return `${key.channel}\u0000${key.kind}\u0000${key.period}`;
+}
+
+function pick(key: ClaimKey): ClaimKey {
+  return { channel: key.channel, kind: key.kind, period: key.period };
+}
+
+function errorName(error: unknown): string {
+  if (isPlumblineError(error)) return error.code;
+  return error instanceof Error ? error.name : "unknown";
+}
+
+function errorDetail(error: unknown): string {
+  return error instanceof Error ? error.message : String(error);
+}

@@ -1,0 +1,59 @@
+/**
+ * @module tick-report
+ * What one scheduler pass did, for tests and logs: posts made, slots skipped (and why), claims
+ * recorded as missed, and failures. Plain data, no message text.
+ */
+
+export type PostKind = "digest" | "note";
+
+export interface SlotRef {
+  readonly channel: string;
+  readonly kind: PostKind;
+  /** The claim period, e.g. "2026-11-02T09:00[Europe/Berlin]" or "2026-11-02T08:00Z". */
+  readonly period: string;
+}
+
+export interface PostedEntry extends SlotRef {
+  /** The slot's instant (digest) or the evaluation time (note), epoch ms. */
+  readonly slotAt: number;
+  readonly audience: "channel" | "facilitators";
+  readonly messageId: string;
+}
+
+export type SkipReason =
+  /** Another replica holds the claim. */
+  | "claimed-elsewhere"
+  /** The compose function had nothing to post (recorded as posted with `NOTHING_POSTED`). */
+  | "nothing-to-post"
+  /** A note for facilitators, but no `sendToFacilitators` was wired. */
+  | "no-facilitator-route";
+
+export interface SkippedEntry extends SlotRef {
+  readonly reason: SkipReason;
+}
+
+export interface MissedEntry {
+  readonly channel: string;
+  readonly kind: string;
+  readonly period: string;
+  readonly claimedBy: string;
+  /** "too-late": found 24 h or more after its slot; "lease-expired": a claimer never finished. */
+  readonly reason: "too-late" | "lease-expired";
+}
+
+export interface FailedEntry {
+  readonly channel: string;
+  readonly kind: PostKind | "settings";
+  readonly period: string | null;
+  /** The error's code when it has one, else its name. */
+  readonly error: string;
+}
+
+export interface TickReport {
+  /** The clock's time at the start of the pass. */
+  readonly at: number;
+  readonly posted: PostedEntry[];
+  readonly skipped: SkippedEntry[];
+  readonly missed: MissedEntry[];
+  readonly failed: FailedEntry[];
+}
