@@ -76,9 +76,20 @@ export async function main(argv: readonly string[], io: CliIo): Promise<number> 
   }
 }
 
-const invokedDirectly =
-  process.argv[1] !== undefined &&
-  import.meta.url === (await import("node:url")).pathToFileURL(process.argv[1]).href;
+/** True when this file is the process's entry point (also through npm's bin symlink). */
+async function isEntryPoint(): Promise<boolean> {
+  const entry = process.argv[1];
+  if (entry === undefined) return false;
+  const { realpathSync } = await import("node:fs");
+  const { fileURLToPath } = await import("node:url");
+  try {
+    return realpathSync(entry) === realpathSync(fileURLToPath(import.meta.url));
+  } catch {
+    return false;
+  }
+}
+
+const invokedDirectly = await isEntryPoint();
 if (invokedDirectly) {
   const io: CliIo = {
     stdout: (t) => process.stdout.write(t),
