@@ -85,10 +85,10 @@ export function changeRow(report: AnalysisReport, previous: AnalysisReport | nul
   }
   const ev = report.effectiveVoices.value - previous.effectiveVoices.value;
   const top = (report.top.share - previous.top.share) * 100;
+  const points = Math.round(top);
   return {
     label,
-    value: `effective voices ${signed(ev, 1)} (${decimal1(previous.effectiveVoices.value)} → ${decimal1(report.effectiveVoices.value)})`,
-    detail: `largest share ${signed(top, 0)} points (${percent(previous.top.share)} → ${percent(report.top.share)})`,
+    value: `effective voices ${signed(ev, 1)} (${decimal1(previous.effectiveVoices.value)} → ${decimal1(report.effectiveVoices.value)}); largest share ${signed(top, 0)} point${Math.abs(points) === 1 ? "" : "s"} (${percent(previous.top.share)} → ${percent(report.top.share)})`,
   };
 }
 

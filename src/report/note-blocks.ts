@@ -20,6 +20,8 @@ export interface NoteArgs {
   /** Naming rules for the audience; the note names the member only where these allow it. */
   readonly policy: NamingPolicy;
   readonly audience: NoteAudience;
+  /** The channel's display name for the heading; the channel id otherwise. */
+  readonly channelName?: string;
 }
 
 /** A what-if cap worth trying: 25%, or the smallest feasible cap for n members, in 5% steps. */
@@ -56,7 +58,7 @@ export function noteBlocks(args: NoteArgs): Block[] {
   const { report, policy, audience } = args;
   const title = audience === "facilitators" ? "Balance note for facilitators" : "Balance note";
   const blocks: Block[] = [
-    { kind: "heading", text: `${title} · ${report.channel}` },
+    { kind: "heading", text: `${title} · ${args.channelName ?? report.channel}` },
     { kind: "note", text: windowText(report) },
   ];
   const line = report.line;
@@ -86,11 +88,8 @@ export function noteBlocks(args: NoteArgs): Block[] {
       ? "What you might try:"
       : "What the channel might try (facilitators especially):";
   blocks.push({
-    kind: "figures",
-    rows: [
-      { label: lead, value: "" },
-      ...suggestions(report).map((s) => ({ label: "  •", value: s })),
-    ],
+    kind: "note",
+    text: [lead, ...suggestions(report).map((s) => `• ${s}`)].join("\n"),
   });
   if (named === null) {
     blocks.push({

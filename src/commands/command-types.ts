@@ -1,0 +1,38 @@
+/**
+ * @module command-types
+ * What the `/influence` command core takes and gives: the context an adapter builds from the
+ * platform's request, the dependencies the composition root passes in, and a neutral response
+ * the adapter shows privately or posts in the channel.
+ */
+import type { OutgoingMessage } from "../ports/chat-platform.js";
+import type { Store } from "../ports/store.js";
+
+export interface CommandContext {
+  readonly channel: string;
+  /** The platform id of the member who typed the command. */
+  readonly member: string;
+  /** The words after `/influence` (or Teams' `influence`), command name already stripped. */
+  readonly text: string;
+  /** Epoch ms: the analysis's `until` and the time of any change the command makes. */
+  readonly now: number;
+  /** The platform says this member is a workspace admin or owner. */
+  readonly isPlatformAdmin: boolean;
+  /** The command was typed inside a thread. */
+  readonly inThread?: boolean;
+}
+
+export interface CommandDeps {
+  readonly store: Store;
+  /** Platform ids configured as facilitators everywhere (`PLUMBLINE_FACILITATORS`). */
+  readonly facilitators: readonly string[];
+  /** Display name of a platform id, when the platform can tell; null when unknown. */
+  readonly displayName?: (platformId: string) => Promise<string | null>;
+}
+
+export type Visibility = "private" | "channel";
+
+export interface CommandResponse {
+  /** `private`: show only to the member who asked; `channel`: post for everyone. */
+  readonly visibility: Visibility;
+  readonly message: OutgoingMessage;
+}

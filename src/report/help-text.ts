@@ -1,0 +1,110 @@
+/**
+ * @module help-text
+ * The `/influence help` answer: every command with one line each, and who may use it. Also the
+ * answer to input the bot does not understand.
+ */
+import type { OutgoingMessage } from "../ports/chat-platform.js";
+import type { Block, FigureRow } from "./blocks.js";
+import { renderText } from "./render-text.js";
+
+export interface HelpEntry {
+  readonly usage: string;
+  readonly summary: string;
+  /** True for commands only facilitators may run. */
+  readonly facilitatorsOnly: boolean;
+}
+
+/** Every command (DESIGN.md §6), in the order help lists them. */
+export const HELP_ENTRIES: readonly HelpEntry[] = [
+  {
+    usage: "check",
+    summary: "the channel's balance right now, shown only to you",
+    facilitatorsOnly: false,
+  },
+  {
+    usage: "check post",
+    summary: "post the same figures in the channel for everyone",
+    facilitatorsOnly: true,
+  },
+  {
+    usage: "me",
+    summary: "your own share and how sure it is, shown only to you",
+    facilitatorsOnly: false,
+  },
+  {
+    usage: "join [named]",
+    summary: "opt in to be counted (add `named` to allow your name to be shown)",
+    facilitatorsOnly: false,
+  },
+  {
+    usage: "leave",
+    summary: "stop being counted and delete everything stored about you here",
+    facilitatorsOnly: false,
+  },
+  {
+    usage: "explain",
+    summary: "how to read every figure, and what they cannot tell",
+    facilitatorsOnly: false,
+  },
+  {
+    usage: "status",
+    summary: "your consent, how much is counted, the settings and the next digest",
+    facilitatorsOnly: false,
+  },
+  {
+    usage: "compare [A B]",
+    summary:
+      "compare two periods, e.g. compare 2026-10-01..2026-10-28 2026-11-01..2026-11-28 (default: this window and the one before)",
+    facilitatorsOnly: false,
+  },
+  {
+    usage: "whatif cap <share>",
+    summary:
+      "what if no one gave any one member more than that share of their attention, e.g. whatif cap 25%",
+    facilitatorsOnly: false,
+  },
+  { usage: "settings", summary: "show this channel's settings", facilitatorsOnly: false },
+  {
+    usage: "set <key> <value>",
+    summary:
+      "change a setting: threshold, window, halflife, digest, timezone, names, notes, minmembers",
+    facilitatorsOnly: true,
+  },
+  {
+    usage: "group <member> <label|clear>",
+    summary: "put an opted-in member in a named group (or clear it) for group shares",
+    facilitatorsOnly: true,
+  },
+  {
+    usage: "facilitator add|remove <member>",
+    summary: "give or take a member's facilitator role in this channel",
+    facilitatorsOnly: true,
+  },
+  { usage: "help", summary: "this list", facilitatorsOnly: false },
+];
+
+/** Help as neutral blocks; `unknown` is the input that was not understood, if any. */
+export function helpBlocks(options: { unknown?: string } = {}): Block[] {
+  const blocks: Block[] = [{ kind: "heading", text: "plumbline: /influence commands" }];
+  if (options.unknown !== undefined) {
+    const shown =
+      options.unknown.length > 60 ? `${options.unknown.slice(0, 57)}...` : options.unknown;
+    blocks.push({ kind: "note", text: `I did not understand "${shown}". Here is what I can do:` });
+  }
+  const rows: FigureRow[] = HELP_ENTRIES.map((e) => ({
+    label: `/influence ${e.usage}`,
+    value: e.facilitatorsOnly ? `${e.summary} (facilitators)` : e.summary,
+  }));
+  blocks.push({ kind: "figures", rows });
+  blocks.push({
+    kind: "footer",
+    text: "Counting starts only for members who join. Figures are a rough proxy for attention, never for HR decisions.",
+  });
+  return blocks;
+}
+
+/** The help answer, ready to show. */
+export function helpMessage(options: { unknown?: string } = {}): OutgoingMessage {
+  const blocks = helpBlocks(options);
+  return { blocks, text: renderText(blocks) };
+}
