@@ -1,0 +1,107 @@
+/**
+ * @module describe-settings
+ * The settings table for the docs (DEVELOPERS.md, README): each environment variable with its
+ * default and meaning, in the schema's order. A test keeps it in step with the schema.
+ */
+import {
+  DEFAULT_DATABASE_URL,
+  DEFAULT_HOST,
+  DEFAULT_PORT,
+  DEFAULT_RETENTION_DAYS,
+  type EnvKey,
+  MIN_ID_KEY_LENGTH,
+  RETENTION_DAYS_LIMITS,
+} from "./env-schema.js";
+
+export interface SettingRow {
+  readonly setting: EnvKey;
+  /** The default as text; null when the setting has none (unset = feature off or generated). */
+  readonly default: string | null;
+  readonly meaning: string;
+}
+
+const ROWS: readonly SettingRow[] = [
+  {
+    setting: "DATABASE_URL",
+    default: DEFAULT_DATABASE_URL,
+    meaning: "Store: sqlite:<path>, sqlite::memory:, postgres://… (several replicas) or memory:",
+  },
+  {
+    setting: "PLUMBLINE_ID_KEY",
+    default: null,
+    meaning: `Secret for the keyed HMAC of member ids (at least ${MIN_ID_KEY_LENGTH} characters); same on every replica. Unset with SQLite: generated into <database>.key`,
+  },
+  {
+    setting: "PLUMBLINE_ID_KEY_FILE",
+    default: null,
+    meaning: "File holding the member id key, instead of PLUMBLINE_ID_KEY",
+  },
+  {
+    setting: "PLUMBLINE_FACILITATORS",
+    default: null,
+    meaning: "Comma-separated platform ids who are facilitators in every channel",
+  },
+  {
+    setting: "PLUMBLINE_RETENTION_DAYS",
+    default: String(DEFAULT_RETENTION_DAYS),
+    meaning: `Days the signal ledger is kept (${RETENTION_DAYS_LIMITS.min}–${RETENTION_DAYS_LIMITS.max})`,
+  },
+  { setting: "HOST", default: DEFAULT_HOST, meaning: "Address the HTTP server listens on" },
+  { setting: "PORT", default: String(DEFAULT_PORT), meaning: "Port the HTTP server listens on" },
+  { setting: "LOG_LEVEL", default: "info", meaning: "debug, info, warn or error" },
+  {
+    setting: "PLUMBLINE_REPLICA_ID",
+    default: "<hostname>-<pid>",
+    meaning: "This replica's name in post claims (which replica posted a digest or note)",
+  },
+  {
+    setting: "SLACK_BOT_TOKEN",
+    default: null,
+    meaning: "Slack bot token (xoxb-…); with SLACK_SIGNING_SECRET turns Slack on",
+  },
+  {
+    setting: "SLACK_SIGNING_SECRET",
+    default: null,
+    meaning: "Slack signing secret, to verify requests",
+  },
+  {
+    setting: "SLACK_APP_TOKEN",
+    default: null,
+    meaning: "Slack app-level token (xapp-…): use Socket Mode instead of HTTP (development)",
+  },
+  {
+    setting: "SLACK_API_URL",
+    default: null,
+    meaning: "Slack Web API base URL override (stubs, proxies); default Slack's own",
+  },
+  {
+    setting: "MICROSOFT_APP_ID",
+    default: null,
+    meaning: "Teams bot app id; with its password and tenant turns Teams on",
+  },
+  {
+    setting: "MICROSOFT_APP_PASSWORD",
+    default: null,
+    meaning: "Teams bot client secret (not used with UserAssignedMSI)",
+  },
+  {
+    setting: "MICROSOFT_APP_TYPE",
+    default: "SingleTenant",
+    meaning: "SingleTenant, MultiTenant or UserAssignedMSI",
+  },
+  {
+    setting: "MICROSOFT_APP_TENANT_ID",
+    default: null,
+    meaning: "Microsoft Entra tenant id (not used with MultiTenant)",
+  },
+  {
+    setting: "PLUMBLINE_TEAMS_DEV_NO_AUTH",
+    default: "0",
+    meaning: "1: run Teams without app credentials, i.e. without authentication (development only)",
+  },
+];
+
+/** Rows (setting, default, meaning) for the documentation's settings table. */
+export function describeSettings(): readonly SettingRow[] {
+  return ROWS;
+}
