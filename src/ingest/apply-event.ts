@@ -66,7 +66,6 @@ export async function applyEvent(ctx: ApplyContext, event: ChatEvent): Promise<v
 
 async function storeMessage(ctx: ApplyContext, event: MessageEvent): Promise<void> {
   const { tx, memberKey } = ctx;
-  if ((await tx.findMessage(event.channel, event.id)) !== null) return; // first wins
   const author = memberKey(event.author);
   let parentAuthor: string | null =
     event.parentAuthor === undefined ? null : memberKey(event.parentAuthor);
@@ -81,6 +80,7 @@ async function storeMessage(ctx: ApplyContext, event: MessageEvent): Promise<voi
   if (!consenting(levels[0])) return;
   const offset = parentAuthor === null ? 1 : 2;
   if (parentAuthor !== null && !consenting(levels[1])) parentAuthor = null;
+  // insertMessage keeps the first message of an id and ignores later ones (first wins).
   await tx.insertMessage(event.channel, {
     id: event.id,
     author,

@@ -46,8 +46,11 @@ export interface StoreTx {
   /** Appends a group change (applied order is kept). */
   addGroup(channel: string, change: GroupChange): Promise<void>;
   findMessage(channel: string, id: string): Promise<StoredMessageHead | null>;
-  /** Stores a new ledger message; its mentions become rows of kind `mention`. */
-  insertMessage(channel: string, message: LedgerMessage): Promise<void>;
+  /**
+   * Stores a new ledger message, its mentions as rows of kind `mention`; false (and nothing
+   * written) when a message with that id is already stored — the first wins.
+   */
+  insertMessage(channel: string, message: LedgerMessage): Promise<boolean>;
   /** Replaces the mention rows of a stored message. */
   setMentions(channel: string, id: string, mentions: readonly string[]): Promise<void>;
   setDeleted(channel: string, id: string, deleted: boolean): Promise<void>;

@@ -129,8 +129,10 @@ export function memoryTx(state: MemoryState, undo: (() => void)[]): StoreTx {
     },
     async insertMessage(id, message) {
       const c = channel(id);
+      if (c.messages.has(message.id)) return false;
       undoSet(c.messages, message.id, undo);
-      c.messages.set(message.id, { ...message, mentions: [...message.mentions] });
+      c.messages.set(message.id, { ...message, mentions: [...new Set(message.mentions)] });
+      return true;
     },
     async setMentions(id, messageId, mentions) {
       const c = channel(id);

@@ -30,6 +30,8 @@ export interface OpenStoreOptions extends KeySource {
   readonly createSchema?: boolean;
   /** PostgreSQL: pool size; default 5. */
   readonly poolSize?: number;
+  /** PostgreSQL: `synchronous_commit` for this store's sessions; default: the server's. */
+  readonly synchronousCommit?: "on" | "off";
   /** Told which migrations ran on open. */
   readonly onMigrated?: (info: { version: number; applied: number }) => void;
 }
@@ -109,6 +111,9 @@ async function openPostgresStore(url: string, options: OpenStoreOptions): Promis
     url,
     ...(options.schema === undefined ? {} : { schema: options.schema }),
     ...(options.poolSize === undefined ? {} : { max: options.poolSize }),
+    ...(options.synchronousCommit === undefined
+      ? {}
+      : { synchronousCommit: options.synchronousCommit }),
   });
   try {
     await driver.connect({

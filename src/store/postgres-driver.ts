@@ -1,8 +1,9 @@
 /**
  * @module postgres-driver
  * pg's connection pool behind the async `SqlDriver`. Each transaction takes one pooled client;
- * `?` placeholders become `$1…$n`. An optional schema is set per connection through the startup
- * `search_path` option, so test runs (and tenants) can live side by side in one database.
+ * `?` placeholders become `$1…$n` in named (prepared) statements. An optional schema is set as
+ * each connection's `search_path` before its first use, so test runs (and tenants) can live side
+ * by side in one database.
  * Writes run at READ COMMITTED: the delivery-key insert with ON CONFLICT DO NOTHING waits for a
  * concurrent insert of the same key to commit or roll back, which makes two replicas apply each
  * delivery once (PostgreSQL manual, "INSERT", ON CONFLICT clause).
@@ -22,6 +23,11 @@ export interface PostgresDriverOptions {
   readonly createSchema?: boolean;
   /** Pool size; default 5. */
   readonly max?: number;
+  /**
+   * `synchronous_commit` for this store's sessions; default: the server's (normally on). "off"
+   * trades the last few commits after a server crash for speed, never consistency.
+   */
+  readonly synchronousCommit?: "on" | "off";
 }
 
 /** A safe identifier for a schema name (letters, digits, underscore). */
@@ -37,14 +43,20 @@ export class PostgresDriver implements SqlDriver {
   private readonly pool: pg.Pool;
   private readonly numbered = new Map<string, { name: string; text: string }>();
   private closed = false;
+  /** Statements run once on each new pooled connection before its first use. */
+  private readonly setup: string[] = [];
+  private readonly ready = new WeakSet<pg.PoolClient>();
 
   constructor(options: PostgresDriverOptions) {
     const schema = options.schema === undefined ? undefined : assertSchemaName(options.schema);
-    this.pool = new pg.Pool({
-      connectionString: options.url,
-      max: options.max ?? 5,
-      ...(schema === undefined ? {} : { options: `-c search_path=${schema}` }),
-    });
+    this.pool = new pg.Pool({ connectionString: options.url, max: options.max ?? 5 });
+    // Set per session, not through the startup `options` (a URL's own options would replace it).
+    if (schema !== undefined) this.setup.push(`SET search_path TO ${schema}`);
+    if (options.synchronousCommit !== undefined) {
+      this.setup.push(
+        `SET synchronous_commit TO ${options.synchronousCommit === "off" ? "off" : "on"}`,
+      );
+    }
     // An idle client losing its connection must not crash the process; the next query reports it.
     this.pool.on("error", () => undefined);
   }
@@ -81,6 +93,10 @@ export class PostgresDriver implements SqlDriver {
     let client: pg.PoolClient;
     try {
       client = await this.pool.connect();
+      if (!this.ready.has(client)) {
+        for (const statement of this.setup) await client.query(statement);
+        this.ready.add(client);
+      }
     } catch (error) {
       throw mapDriverError(error);
     }

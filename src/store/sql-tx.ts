@@ -95,9 +95,9 @@ export function sqlTx(conn: SqlConnection): StoreTx {
       return row === undefined ? null : { author: String(row.author), at: num(row.at) };
     },
     async insertMessage(channel, message: LedgerMessage) {
-      await conn.run(
+      const inserted = await conn.run(
         `INSERT INTO message (channel, id, author, at, parent_author, deleted)
-         VALUES (?, ?, ?, ?, ?, ?)`,
+         VALUES (?, ?, ?, ?, ?, ?) ON CONFLICT (channel, id) DO NOTHING`,
         [
           channel,
           message.id,
@@ -107,7 +107,9 @@ export function sqlTx(conn: SqlConnection): StoreTx {
           message.deleted ? 1 : 0,
         ],
       );
+      if (inserted === 0) return false;
       await insertMentions(conn, channel, message.id, message.mentions);
+      return true;
     },
     async setMentions(channel, id, mentions) {
       await conn.run(
