@@ -15,7 +15,7 @@
 import type { CountMatrix } from "../domain/counts.js";
 import type { Rng } from "../ports/rng.js";
 import { type AttentionRows, checkBackground, pointAttentionRows } from "./attention-rows.js";
-import { sampleLogGamma } from "./gamma-sampler.js";
+import { createGammaSampler, type GammaSampler } from "./gamma-sampler.js";
 import { checkSelfWeight, stationaryVector } from "./stationary-vector.js";
 
 export interface PosteriorOptions {
@@ -34,7 +34,7 @@ export interface PosteriorOptions {
 function drawInto(
   counts: CountMatrix,
   background: number,
-  rng: Rng,
+  gamma: GammaSampler,
   target: { values: Float64Array; rest: Float64Array; logs: Float64Array },
 ): void {
   const n = counts.members.length;
@@ -51,12 +51,12 @@ function drawInto(
     }
     let max = Number.NEGATIVE_INFINITY;
     for (let k = lo; k < hi; k++) {
-      const log = sampleLogGamma(counts.values[k] + b, rng);
+      const log = gamma.logGamma(counts.values[k] + b);
       logs[k] = log;
       if (log > max) max = log;
     }
     const restShape = b * unobserved;
-    const logRest = restShape > 0 ? sampleLogGamma(restShape, rng) : Number.NEGATIVE_INFINITY;
+    const logRest = restShape > 0 ? gamma.logGamma(restShape) : Number.NEGATIVE_INFINITY;
     if (logRest > max) max = logRest;
     if (max === Number.NEGATIVE_INFINITY) {
       // Every variate underflowed even in log space (shapes near the smallest double): even row.
@@ -90,7 +90,11 @@ export function drawAttentionRows(
   const nnz = counts.values.length;
   const values = new Float64Array(nnz);
   const rest = new Float64Array(n);
-  drawInto(counts, background, rng, { values, rest, logs: new Float64Array(nnz) });
+  drawInto(counts, background, createGammaSampler(rng), {
+    values,
+    rest,
+    logs: new Float64Array(nnz),
+  });
   return { n, rowPtr: counts.rowPtr, colIdx: counts.colIdx, values, rest };
 }
 
@@ -123,8 +127,9 @@ export function posteriorShares(counts: CountMatrix, options: PosteriorOptions):
     rest: buffer.rest,
   };
   const draws: Float64Array[] = [];
+  const gamma = createGammaSampler(rng);
   for (let k = 0; k < samples; k++) {
-    drawInto(counts, background, rng, buffer);
+    drawInto(counts, background, gamma, buffer);
     draws.push(stationaryVector(rows, { selfWeight, start }).vector);
   }
   return draws;

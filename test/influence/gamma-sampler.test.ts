@@ -1,5 +1,9 @@
 import { describe, expect, it } from "vitest";
-import { sampleGamma, sampleLogGamma } from "../../src/influence/gamma-sampler.js";
+import {
+  createGammaSampler,
+  sampleGamma,
+  sampleLogGamma,
+} from "../../src/influence/gamma-sampler.js";
 import { drawAttentionRows } from "../../src/influence/posterior-draws.js";
 import { createSeededRng } from "../../src/ports/rng.js";
 import { countsFromDense, digamma, loadJStatGamma, meanVariance, polygamma } from "./fixtures.js";
@@ -57,6 +61,24 @@ describe("gamma sampler (Marsaglia & Tsang 2000)", () => {
       const rng = createSeededRng(Math.round(shape * 100) + 5);
       const count = 20_000;
       const xs = Array.from({ length: count }, () => sampleGamma(shape, rng)).sort((a, b) => a - b);
+      let d = 0;
+      xs.forEach((x, k) => {
+        const f = gamma.cdf(x, shape, 1);
+        d = Math.max(d, Math.abs(f - k / count), Math.abs((k + 1) / count - f));
+      });
+      expect(d).toBeLessThan(1.95 / Math.sqrt(count));
+    });
+  }
+
+  for (const shape of [0.3, 2.5]) {
+    it(`the sampler that keeps spare normals also passes KS against jstat's Gamma(${shape})`, () => {
+      // Same reference and critical value as above; this is the path the posterior draws use.
+      const gamma = loadJStatGamma();
+      const sampler = createGammaSampler(createSeededRng(Math.round(shape * 100) + 9));
+      const count = 20_000;
+      const xs = Array.from({ length: count }, () => Math.exp(sampler.logGamma(shape))).sort(
+        (a, b) => a - b,
+      );
       let d = 0;
       xs.forEach((x, k) => {
         const f = gamma.cdf(x, shape, 1);
