@@ -103,5 +103,7 @@ const ROWS: readonly SettingRow[] = [
 
 /** Rows (setting, default, meaning) for the documentation's settings table. */
 export function describeSettings(): readonly SettingRow[] {
-  return ROWS;
+  return FROZEN_ROWS;
 }
+
+const FROZEN_ROWS: readonly SettingRow[] = Object.freeze(ROWS.map((row) => Object.freeze(row)));
