@@ -53,7 +53,7 @@ const FIGURES: readonly [string, string][] = [
   ],
   [
     "Groups",
-    "when a facilitator labels groups (for example teams or shifts), each group's share of influence beside its share of the members. A group holding 50% of influence with 25% of the members is heard twice its size.",
+    "when a facilitator labels groups (for example departments or shifts), each group's share of influence beside its share of the members. A group holding 50% of influence with 25% of the members is heard twice its size.",
   ],
   [
     "Where the largest share comes from",
