@@ -41,7 +41,7 @@ const FIGURES: readonly [string, string][] = [
   ["Largest share", "the biggest single influence share, with its interval."],
   [
     "Line",
-    "the share above which the bot posts a balance note. By default it is 30%, or twice an even share in small channels (with 5 members, 40%). A note is posted only when a member is above the line with at least 80% probability, not at the first brush with it.",
+    "the share above which the bot posts a balance note. By default it is 30%, or twice an even share in small channels (with 5 members, 40%). A note is posted only when a member is above the line with at least 80% probability, not at the first brush with it. After a note, the next one waits until the largest share has fallen 5 points below the line, and a channel gets at most one note a week.",
   ],
   [
     "Probability above the line",
