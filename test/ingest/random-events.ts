@@ -15,6 +15,10 @@ export interface StreamOptions {
   readonly count: number;
   readonly members?: number;
   readonly channels?: readonly string[];
+  /** Levels of later consent changes; default counted, named (twice as often) and off. */
+  readonly levels?: readonly ConsentLevel[];
+  /** Level of each member's first consent change; default counted. */
+  readonly initialLevel?: ConsentLevel;
 }
 
 export function randomDeliveries(options: StreamOptions): Delivery[] {
@@ -23,7 +27,8 @@ export function randomDeliveries(options: StreamOptions): Delivery[] {
   const members = Array.from({ length: options.members ?? 8 }, (_, i) => `U${i + 1}`);
   const channels = options.channels ?? ["c1"];
   const ids: Map<string, string[]> = new Map(channels.map((c) => [c, []]));
-  const levels: ConsentLevel[] = ["counted", "named", "named", "off"];
+  const levels = options.levels ?? ["counted", "named", "named", "off"];
+  const initial = options.initialLevel ?? "counted";
   const out: Delivery[] = [];
   let at = STREAM_T0;
   for (let i = 0; i < options.count; i++) {
@@ -42,7 +47,7 @@ export function randomDeliveries(options: StreamOptions): Delivery[] {
         at: when,
         channel,
         member,
-        level: i < members.length ? "counted" : pick(levels),
+        level: i < members.length ? initial : pick(levels),
         notice: "v1",
       };
     } else if (r < 0.7 || known.length === 0) {
