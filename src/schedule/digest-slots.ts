@@ -27,6 +27,20 @@ export function digestCronPattern(schedule: DigestSchedule): string {
   return `${Number(match[2])} ${Number(match[1])} * * ${schedule.weekday % 7}`;
 }
 
+const crons = new Map<string, Cron>();
+
+function cronFor(pattern: string, timezone: string): Cron {
+  const id = `${pattern} ${timezone}`;
+  let cron = crons.get(id);
+  if (cron === undefined) {
+    assertTimeZone(timezone);
+    cron = new Cron(pattern, { timezone, paused: true });
+    // Patterns are weekday × minute and zones a few hundred: the cache stays small.
+    crons.set(id, cron);
+  }
+  return cron;
+}
+
 /** Digest slot instants (epoch ms) in (from, to], oldest first. */
 export function digestSlotsBetween(args: {
   readonly schedule: DigestSchedule;
@@ -34,11 +48,7 @@ export function digestSlotsBetween(args: {
   readonly from: number;
   readonly to: number;
 }): number[] {
-  assertTimeZone(args.timezone);
-  const cron = new Cron(digestCronPattern(args.schedule), {
-    timezone: args.timezone,
-    paused: true,
-  });
+  const cron = cronFor(digestCronPattern(args.schedule), args.timezone);
   const slots: number[] = [];
   let cursor = new Date(args.from);
   for (;;) {
