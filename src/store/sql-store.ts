@@ -22,7 +22,8 @@ import type {
 import type { MemberKeyer } from "./member-key.js";
 import { LATEST_SCHEMA_VERSION, pendingMigrations } from "./migrations.js";
 import { buildSnapshot, compareStrings, isConsentLevel, snapshotId } from "./snapshot.js";
-import type { SqlConnection, SqlDriver, SqlRow } from "./sql-driver.js";
+import { completeClaim, insertClaim, markMissed, readClaim } from "./sql-claims.js";
+import type { SqlConnection, SqlDriver } from "./sql-driver.js";
 import { eraseChannelRows, eraseMemberRows, purgeRows } from "./sql-erase.js";
 import { num, sqlTx } from "./sql-tx.js";
 
@@ -215,60 +216,21 @@ export class SqlStore implements Store {
     });
   }
 
-  async claimPost(request: ClaimRequest): Promise<boolean> {
+  claimPost(request: ClaimRequest): Promise<boolean> {
     const member = request.member ? this.memberKey(request.member) : null;
-    const changed = await this.write((conn) =>
-      conn.run(
-        `INSERT INTO post_claim (channel, kind, period, claimed_by, claimed_at, lease_until, status,
-           platform_message_id, member) VALUES (?, ?, ?, ?, ?, ?, 'claimed', NULL, ?)
-         ON CONFLICT (channel, kind, period) DO NOTHING`,
-        [
-          request.channel,
-          request.kind,
-          request.period,
-          request.claimedBy,
-          request.now,
-          request.now + request.leaseMs,
-          member,
-        ],
-      ),
-    );
-    return changed === 1;
+    return this.write((conn) => insertClaim(conn, request, member));
   }
 
-  async completePost(
-    key: ClaimKey & { claimedBy: string; platformMessageId: string },
-  ): Promise<boolean> {
-    const changed = await this.write((conn) =>
-      conn.run(
-        `UPDATE post_claim SET status = 'posted', platform_message_id = ?
-         WHERE channel = ? AND kind = ? AND period = ? AND claimed_by = ? AND status <> 'posted'`,
-        [key.platformMessageId, key.channel, key.kind, key.period, key.claimedBy],
-      ),
-    );
-    return changed === 1;
+  completePost(key: ClaimKey & { claimedBy: string; platformMessageId: string }): Promise<boolean> {
+    return this.write((conn) => completeClaim(conn, key));
   }
 
-  async getClaim(key: ClaimKey): Promise<PostClaim | null> {
-    const rows = await this.read((conn) =>
-      conn.all("SELECT * FROM post_claim WHERE channel = ? AND kind = ? AND period = ?", [
-        key.channel,
-        key.kind,
-        key.period,
-      ]),
-    );
-    return rows.length === 0 ? null : toClaim(rows[0]);
+  getClaim(key: ClaimKey): Promise<PostClaim | null> {
+    return this.read((conn) => readClaim(conn, key));
   }
 
-  async markMissedClaims(now: number): Promise<PostClaim[]> {
-    const rows = await this.write((conn) =>
-      conn.all(
-        `UPDATE post_claim SET status = 'missed' WHERE status = 'claimed' AND lease_until < ?
-         RETURNING *`,
-        [now],
-      ),
-    );
-    return rows.map(toClaim).sort((a, b) => compareStrings(claimOrder(a), claimOrder(b)));
+  markMissedClaims(now: number): Promise<PostClaim[]> {
+    return this.write((conn) => markMissed(conn, now));
   }
 
   async eraseMember(channel: string, platformId: string): Promise<EraseCounts> {
@@ -314,23 +276,4 @@ async function platformIds(conn: SqlConnection, channel: string): Promise<Map<st
     channel,
   ]);
   return new Map(rows.map((r) => [String(r.member), String(r.platform_id)]));
-}
-
-function toClaim(row: SqlRow): PostClaim {
-  const status = row.status === "posted" || row.status === "missed" ? row.status : "claimed";
-  return {
-    channel: String(row.channel),
-    kind: String(row.kind),
-    period: String(row.period),
-    claimedBy: String(row.claimed_by),
-    claimedAt: num(row.claimed_at),
-    leaseUntil: num(row.lease_until),
-    status,
-    platformMessageId: row.platform_message_id === null ? null : String(row.platform_message_id),
-    member: row.member === null ? null : String(row.member),
-  };
-}
-
-function claimOrder(claim: PostClaim): string {
-  return `${claim.channel}\u0000${claim.kind}\u0000${claim.period}`;
 }
