@@ -79,7 +79,7 @@ describe("evaluateBalanceNote", () => {
   });
 
   it("keeps at most one note in any 7 days even when the share swings fully each day", () => {
-    const steps = [];
+    const steps: { at: number; share: number; pAbove: number }[] = [];
     for (let day = 0; day < 28; day++) {
       steps.push({ at: T + day * DAY_MS, share: 0.45, pAbove: 0.99 });
       steps.push({ at: T + day * DAY_MS + 12 * HOUR, share: 0.1, pAbove: 0 });
