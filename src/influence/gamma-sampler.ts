@@ -42,7 +42,7 @@ function logGammaAtLeastOne(shape: number, rng: Rng, normal: () => number): numb
       v = 1 + c * x;
     } while (v <= 0);
     v = v * v * v;
-    const u = rng.next();
+    const u = rng.next32();
     const x2 = x * x;
     if (u < 1 - 0.0331 * x2 * x2) return Math.log(d * v);
     if (Math.log(u) < 0.5 * x2 + d * (1 - v + Math.log(v))) return Math.log(d * v);
@@ -76,8 +76,8 @@ export function createGammaSampler(rng: Rng): GammaSampler {
       return spare;
     }
     for (;;) {
-      const u = 2 * rng.next() - 1;
-      const v = 2 * rng.next() - 1;
+      const u = 2 * rng.next32() - 1;
+      const v = 2 * rng.next32() - 1;
       const q = u * u + v * v;
       if (q > 0 && q < 1) {
         const f = Math.sqrt((-2 * Math.log(q)) / q);

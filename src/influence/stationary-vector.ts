@@ -5,11 +5,12 @@
  * differ by less than the tolerance in L1 (von Mises & Pollaczek-Geiringer 1929, "Praktische
  * Verfahren der Gleichungsauflösung", ZAMM 9:152–164; for Markov chains see Stewart 1994,
  * "Introduction to the Numerical Solution of Markov Chains", ch. 1). Each step is one sparse left
- * product, O(nonzeros + n). Every σ < 1 has the same stationary vector, so the iteration runs with
- * σ_iter = σ when σ ≥ 0.05 and with σ_iter = 0.5 otherwise: the laziness makes a periodic closed
- * class aperiodic (all eigenvalues other than 1 move strictly inside the unit circle), so the
- * power method converges even for a permutation-like A. The caller decides uniqueness: with
- * several closed groups the result depends on the start.
+ * product, O(nonzeros + n). Every σ < 1 has the same stationary vector, so the iteration does not
+ * use the caller's σ: it starts on A itself (σ_iter = 0, usually the fastest contraction) and
+ * switches for good to the lazy chain ½I + ½A as soon as the L1 change stops shrinking fast
+ * (ratio above 0.75 after a few rounds) — the laziness moves every eigenvalue other than 1 into
+ * the disc |z − ½| ≤ ½, so periodic or nearly bipartite attention still converges. The caller
+ * decides uniqueness: with several closed groups the result depends on the start.
  */
 
 import { PlumblineError } from "../domain/errors.js";
@@ -31,7 +32,12 @@ export interface StationaryResult {
   readonly iterations: number;
 }
 
-const DEFAULTS = { tolerance: 1e-12, minSelfWeight: 0.05, fallbackSelfWeight: 0.5 } as const;
+const DEFAULTS = {
+  tolerance: 1e-12,
+  probeRounds: 4,
+  slowRatio: 0.75,
+  lazySelfWeight: 0.5,
+} as const;
 
 /** Guards the self-weight setting σ of DESIGN.md §4. */
 export function checkSelfWeight(selfWeight: number): void {
@@ -42,11 +48,6 @@ export function checkSelfWeight(selfWeight: number): void {
       { hint: "Set --self-weight to a number in [0, 1) (default 0.5)." },
     );
   }
-}
-
-/** The self-weight the power method actually uses for a given σ (same s, guaranteed aperiodic). */
-export function iterationSelfWeight(selfWeight: number): number {
-  return selfWeight >= DEFAULTS.minSelfWeight ? selfWeight : DEFAULTS.fallbackSelfWeight;
 }
 
 function defaultMaxIterations(rows: AttentionRows): number {
@@ -83,7 +84,9 @@ export function stationaryVector(
   if (n === 1) return { vector: Float64Array.of(1), iterations: 0 };
   const tolerance = options.tolerance ?? DEFAULTS.tolerance;
   const maxIterations = options.maxIterations ?? defaultMaxIterations(rows);
-  const sigma = iterationSelfWeight(options.selfWeight);
+  // n = 2 without laziness is the swap [[0,1],[1,0]]: start lazy there.
+  let sigma: number = n > 2 ? 0 : DEFAULTS.lazySelfWeight;
+  let previousChange = Number.POSITIVE_INFINITY;
   let x: Float64Array = initialVector(n, options.start);
   let y: Float64Array = new Float64Array(n);
   for (let iteration = 1; iteration <= maxIterations; iteration++) {
@@ -104,6 +107,14 @@ export function stationaryVector(
     x = y;
     y = previous;
     if (change < tolerance) return { vector: clampNegatives(x), iterations: iteration };
+    if (
+      sigma === 0 &&
+      iteration > DEFAULTS.probeRounds &&
+      change > DEFAULTS.slowRatio * previousChange
+    ) {
+      sigma = DEFAULTS.lazySelfWeight;
+    }
+    previousChange = change;
   }
   throw new PlumblineError(
     "NO_CONVERGENCE",

@@ -8,6 +8,8 @@
 export interface Rng {
   /** A uniform double in [0, 1) with 53 random bits. */
   next(): number;
+  /** A uniform double in [0, 1) with 32 random bits: half the cost, for rejection samplers. */
+  next32(): number;
 }
 
 function splitmix32(state: number): () => number {
@@ -49,6 +51,9 @@ export function createSeededRng(seed: number): Rng {
       const hi = next32() >>> 5; // 27 bits
       const lo = next32() >>> 6; // 26 bits
       return (hi * 67108864 + lo) / 9007199254740992;
+    },
+    next32(): number {
+      return next32() / 4294967296;
     },
   };
 }

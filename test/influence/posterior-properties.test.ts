@@ -1,8 +1,10 @@
 import fc from "fast-check";
+import { EigenvalueDecomposition, Matrix } from "ml-matrix";
 import { describe, expect, it } from "vitest";
 import type { CountMatrix } from "../../src/domain/counts.js";
 import { denseTransition, pointAttentionRows } from "../../src/influence/attention-rows.js";
 import { posteriorShares } from "../../src/influence/posterior-draws.js";
+import { denseSecondEigenvalue } from "../../src/influence/second-eigenvalue.js";
 import { stationaryVector } from "../../src/influence/stationary-vector.js";
 import { createSeededRng, type Rng } from "../../src/ports/rng.js";
 import { countsFromDense, quantile, randomDenseCounts } from "./fixtures.js";
@@ -80,8 +82,10 @@ describe("influence share properties", () => {
     );
   });
 
-  it("σ changes the iteration count, never s", () => {
+  it("σ changes the speed of averaging, never s", () => {
     // DeMarzo, Vayanos & Zwiebel 2003, QJE 118:909–968 (from memory): self-weight changes speed.
+    // Speed: T = σI + (1−σ)A has eigenvalues σ + (1−σ)λ for the eigenvalues λ of A (spectral
+    // mapping, common practice), so |λ2(T)| = max over λ ≠ 1 of |σ + (1−σ)λ|.
     fc.assert(
       fc.property(denseCounts, fc.double({ min: 0.1, max: 2, noNaN: true }), (dense, beta) => {
         const rows = pointAttentionRows(countsFromDense(dense), beta);
@@ -91,7 +95,27 @@ describe("influence share properties", () => {
             expect(Math.abs(v - runs[0].vector[i])).toBeLessThan(1e-10);
           });
         }
-        if (dense.length > 2) expect(runs[2].iterations).toBeGreaterThan(runs[1].iterations);
+        const evd = new EigenvalueDecomposition(new Matrix(denseTransition(rows, 0)));
+        const spectrum = evd.realEigenvalues.map((re, k) => ({
+          re,
+          im: evd.imaginaryEigenvalues[k],
+        }));
+        const one = spectrum.reduce(
+          (best, z, k) =>
+            Math.hypot(z.re - 1, z.im) < Math.hypot(spectrum[best].re - 1, spectrum[best].im)
+              ? k
+              : best,
+          0,
+        );
+        for (const sigma of [0.3, 0.8]) {
+          const expected = Math.max(
+            0,
+            ...spectrum
+              .filter((_, k) => k !== one)
+              .map((z) => Math.hypot(sigma + (1 - sigma) * z.re, (1 - sigma) * z.im)),
+          );
+          expect(Math.abs(denseSecondEigenvalue(rows, sigma) - expected)).toBeLessThan(1e-9);
+        }
       }),
       { seed: 13, numRuns: 40 },
     );
