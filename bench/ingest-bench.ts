@@ -93,7 +93,7 @@ async function benchPostgres(deliveries: readonly Delivery[], url?: string): Pro
       { name: "ingest postgres single", value: 0, unit: "events/s", note: `not run: ${why}` },
     ];
   }
-  const n = Math.min(deliveries.length, 5000);
+  const n = Math.min(deliveries.length, 2000);
   const part = deliveries.slice(0, n);
   const rows: Row[] = [];
   try {

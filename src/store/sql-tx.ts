@@ -15,6 +15,10 @@ export function num(value: unknown): number {
   return typeof value === "number" ? value : Number(value);
 }
 
+/** Rule 1 for one member: the latest change at or before the time, the later applied on ties. */
+const LATEST_LEVEL = `SELECT level FROM consent_change WHERE channel = ? AND member = ? AND at <= ?
+  ORDER BY at DESC, seq DESC LIMIT 1`;
+
 export function sqlTx(conn: SqlConnection): StoreTx {
   return {
     async addDelivery(key, receivedAt) {
@@ -34,28 +38,23 @@ export function sqlTx(conn: SqlConnection): StoreTx {
       );
     },
     async consentAt(channel, member, at): Promise<ConsentLevel> {
-      const rows = await conn.all(
-        `SELECT level FROM consent_change WHERE channel = ? AND member = ? AND at <= ?
-         ORDER BY at DESC, seq DESC LIMIT 1`,
-        [channel, member, at],
-      );
+      const rows = await conn.all(LATEST_LEVEL, [channel, member, at]);
       const level = rows[0]?.level;
       return isConsentLevel(level) ? level : "off";
     },
     async consentAtMany(channel, members, at): Promise<ConsentLevel[]> {
       if (members.length === 0) return [];
       const distinct = [...new Set(members)];
+      // One statement, one indexed LIMIT 1 lookup per member (a single round trip on PostgreSQL).
       const rows = await conn.all(
-        `SELECT member, level FROM consent_change
-         WHERE channel = ? AND at <= ? AND member IN (${distinct.map(() => "?").join(", ")})
-         ORDER BY member, at DESC, seq DESC`,
-        [channel, at, ...distinct],
+        `SELECT ${distinct.map((_, i) => `(${LATEST_LEVEL}) AS l${i}`).join(", ")}`,
+        distinct.flatMap((member) => [channel, member, at]),
       );
       const levels = new Map<string, ConsentLevel>();
-      for (const row of rows) {
-        const member = String(row.member);
-        if (!levels.has(member) && isConsentLevel(row.level)) levels.set(member, row.level);
-      }
+      distinct.forEach((member, i) => {
+        const level = rows[0]?.[`l${i}`];
+        levels.set(member, isConsentLevel(level) ? level : "off");
+      });
       return members.map((m) => levels.get(m) ?? "off");
     },
     async addConsent(channel, change: ConsentChange) {
