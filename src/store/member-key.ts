@@ -71,7 +71,10 @@ function readKeyFile(path: string, generate: boolean): string {
   } catch (error) {
     // Another process created it first: use theirs.
     if (isCode(error, "EEXIST")) return readFileSync(path, "utf8").trim();
-    throw error;
+    throw new PlumblineError("STORE_NO_ID_KEY", `cannot write the member id key file ${path}`, {
+      hint: "make the database folder writable, or set PLUMBLINE_ID_KEY",
+      cause: error,
+    });
   }
   return key;
 }

@@ -94,7 +94,16 @@ export async function openSqliteStore(
   options: OpenStoreOptions = {},
 ): Promise<SqliteStore> {
   const file = path !== ":memory:";
-  if (file) mkdirSync(dirname(path), { recursive: true });
+  if (file) {
+    try {
+      mkdirSync(dirname(path), { recursive: true });
+    } catch (error) {
+      throw new PlumblineError("STORE_UNAVAILABLE", `cannot create the folder of ${path}`, {
+        hint: "make the folder writable, or set DATABASE_URL to a path you can write",
+        cause: error,
+      });
+    }
+  }
   const keyer = createMemberKeyer(resolveIdKey(options, file ? `${path}.key` : null));
   const driver = new SqliteDriver({
     path,

@@ -55,7 +55,9 @@ function runChild(db: string, from: number, killAfter: number | null, acked: Set
 }
 
 describe("crash test", () => {
-  it(`survives ${KILLS} SIGKILLs with every acknowledged event stored exactly once`, async () => {
+  it(`survives ${KILLS} SIGKILLs with every acknowledged event stored exactly once`, {
+    timeout: 180_000,
+  }, async () => {
     const db = join(dir, "crash.db");
     const rng = createSeededRng(5);
     const acked = new Set<number>();

@@ -1,4 +1,4 @@
-import { mkdtempSync, rmSync, statSync } from "node:fs";
+import { mkdtempSync, rmSync, statSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import Database from "better-sqlite3";
@@ -136,6 +136,14 @@ describe("SQLite store", () => {
     expect(parseStoreUrl("postgresql://u@h/db")).toEqual({
       kind: "postgres",
       url: "postgresql://u@h/db",
+    });
+  });
+
+  it("reports an unusable database folder as STORE_UNAVAILABLE", async () => {
+    const blocker = join(dir, "not-a-folder");
+    writeFileSync(blocker, "");
+    await expect(openStore(`sqlite:${blocker}/x.db`, { idKey: TEST_KEY })).rejects.toMatchObject({
+      code: "STORE_UNAVAILABLE",
     });
   });
 
