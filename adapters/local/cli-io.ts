@@ -9,4 +9,6 @@ export interface CliIo {
   readonly stderr: (text: string) => void;
   readonly env: Readonly<Record<string, string | undefined>>;
   readonly cwd: string;
+  /** Standard input, for the console; absent in tests that do not type. */
+  readonly stdin?: NodeJS.ReadableStream & { readonly isTTY?: boolean };
 }

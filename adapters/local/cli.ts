@@ -6,6 +6,7 @@
  */
 import { isPlumblineError } from "../../src/domain/errors.js";
 import { runAnalyze, runCompare, runWhatIf } from "./cli-analyze.js";
+import { runConsole } from "./cli-console.js";
 import { runDemo } from "./cli-demo.js";
 import type { CliIo } from "./cli-io.js";
 
@@ -24,6 +25,11 @@ const COMMANDS: Record<string, { run: Command; summary: string }> = {
     run: runWhatIf,
     summary:
       "whatif <log> --cap SHARE            recompute with attention to any one member capped",
+  },
+  console: {
+    run: runConsole,
+    summary:
+      "console [--facilitator NAME]       type as members, run commands, see the bot's answers",
   },
   demo: {
     run: runDemo,

@@ -1,0 +1,125 @@
+/**
+ * @module create-bot
+ * The platform-neutral bot, assembled from the core's parts: ingestion (each event once, before
+ * the platform is acknowledged), the `/influence` router, and the scheduler with its digest and
+ * note composers. Every adapter (console, Slack, Teams) builds one with its own `ChatPlatform`;
+ * nothing here knows a platform.
+ */
+
+import { readChannelSettings } from "../src/commands/channel-settings-store.js";
+import type {
+  CommandContext,
+  CommandDeps,
+  CommandResponse,
+} from "../src/commands/command-types.js";
+import { handleCommand } from "../src/commands/handle-command.js";
+import { namingPolicy } from "../src/commands/member-view.js";
+import { analysisSettingsFor } from "../src/domain/channel-settings.js";
+import type { ChatEvent } from "../src/domain/events.js";
+import { DAY_MS } from "../src/domain/settings.js";
+import { ingest } from "../src/ingest/ingest.js";
+import { noteDecision } from "../src/policy/note-decision.js";
+import type { ChatPlatform, OutgoingMessage } from "../src/ports/chat-platform.js";
+import type { Clock } from "../src/ports/clock.js";
+import type { Logger } from "../src/ports/logger.js";
+import { PSEUDONYM_PREFIX, type Store } from "../src/ports/store.js";
+import { analyzeSnapshot } from "../src/report/analyze-snapshot.js";
+import { digestMessage } from "../src/report/digest-blocks.js";
+import { noteMessage } from "../src/report/note-blocks.js";
+import { Scheduler } from "../src/schedule/scheduler.js";
+import type { NoteComposition } from "../src/schedule/scheduler-deps.js";
+
+export interface BotOptions {
+  readonly store: Store;
+  readonly platform: ChatPlatform;
+  readonly clock: Clock;
+  readonly logger: Logger;
+  /** Platform ids that are facilitators everywhere (PLUMBLINE_FACILITATORS). */
+  readonly facilitators: readonly string[];
+  readonly replicaId: string;
+}
+
+export interface Bot {
+  /** Applies one platform event once; resolve before acknowledging the platform. */
+  onEvent(event: ChatEvent, deliveryKey: string): Promise<{ applied: boolean }>;
+  /** Answers one `/influence …` command. */
+  onCommand(context: Omit<CommandContext, "now"> & { now?: number }): Promise<CommandResponse>;
+  readonly scheduler: Scheduler;
+  readonly commandDeps: CommandDeps;
+}
+
+export function createBot(options: BotOptions): Bot {
+  const { store, platform, clock, logger } = options;
+  const commandDeps: CommandDeps = {
+    store,
+    facilitators: options.facilitators,
+    displayName: (id) => platform.displayName(id),
+  };
+
+  async function analyse(channel: string, until: number) {
+    const settings = await readChannelSettings(store, channel);
+    const snapshot = await store.loadSnapshot(channel);
+    const report = analyzeSnapshot(snapshot, analysisSettingsFor(settings), { until });
+    return { settings, snapshot, report };
+  }
+
+  async function composeDigest(channel: string, slotAt: number): Promise<OutgoingMessage | null> {
+    const { settings, snapshot, report } = await analyse(channel, slotAt);
+    // A window with no opted-in activity at all (e.g. before the bot arrived) gets no digest.
+    if (report.members === 0 && report.signals === 0) return null;
+    const previous = analyzeSnapshot(snapshot, analysisSettingsFor(settings), {
+      until: slotAt - 7 * DAY_MS,
+    });
+    const policy = await namingPolicy({ report, deps: commandDeps, namesOn: settings.names });
+    return digestMessage({ report, previous: previous.sufficient ? previous : null, policy });
+  }
+
+  async function composeNote(channel: string, now: number): Promise<NoteComposition | null> {
+    const { settings, report } = await analyse(channel, now);
+    if (settings.notes === "off" || !report.sufficient) return null;
+    const decision = await noteDecision(store, channel, report, now, settings.notes);
+    if (!decision.post || decision.audience === null) return null;
+    const policy = await namingPolicy({ report, deps: commandDeps, namesOn: settings.names });
+    const member =
+      decision.member !== null && !decision.member.startsWith(PSEUDONYM_PREFIX)
+        ? decision.member
+        : null;
+    return {
+      message: noteMessage({ report, policy, audience: decision.audience }),
+      audience: decision.audience,
+      member,
+      onPosted: () => decision.commit(),
+    };
+  }
+
+  async function sendToFacilitators(channel: string, message: OutgoingMessage): Promise<void> {
+    const stored = await store.listFacilitators(channel);
+    const targets = new Set(
+      [...options.facilitators, ...stored].filter((id) => !id.startsWith(PSEUDONYM_PREFIX)),
+    );
+    for (const id of targets) await platform.postPrivately(channel, id, message);
+  }
+
+  const scheduler = new Scheduler({
+    store,
+    platform,
+    clock,
+    logger,
+    replicaId: options.replicaId,
+    readSettings: (channel) => readChannelSettings(store, channel),
+    composeDigest,
+    composeNote,
+    sendToFacilitators,
+  });
+
+  return {
+    scheduler,
+    commandDeps,
+    onEvent(event, deliveryKey) {
+      return ingest(store, event, deliveryKey, { receivedAt: clock.now() });
+    },
+    onCommand(context) {
+      return handleCommand({ ...context, now: context.now ?? clock.now() }, commandDeps);
+    },
+  };
+}
