@@ -3,7 +3,8 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import Database from "better-sqlite3";
 import { afterAll, describe, expect, it } from "vitest";
-import { ingest } from "../../src/ingest/ingest.js";
+import { leave } from "../../src/ingest/erase.js";
+import { type Delivery, ingest, ingestBatch } from "../../src/ingest/ingest.js";
 import { LATEST_SCHEMA_VERSION } from "../../src/store/migrations.js";
 import { openSqliteStore, openStore, parseStoreUrl } from "../../src/store/open-store.js";
 import { storeContract } from "./store-contract.js";
@@ -117,6 +118,53 @@ describe("SQLite store", () => {
     raw.close();
     expect(dump).not.toContain("SECRET_COUNTED");
     expect(dump.split("VISIBLE_NAMED").length - 1).toBe(1); // only in named_member
+  });
+
+  it("leave removes every row naming a member with 1,000 ledger rows", async () => {
+    const path = join(dir, "leave.db");
+    const store = await openSqliteStore(path, { idKey: TEST_KEY });
+    const at = Date.UTC(2026, 10, 2);
+    const batch: Delivery[] = ["LEAVER", "U2", "U3"].map((member, i) => ({
+      event: { type: "consent", at, channel: "c1", member, level: "named" },
+      deliveryKey: `c${i}`,
+    }));
+    for (let i = 0; i < 1000; i++) {
+      const author = i % 2 === 0 ? "LEAVER" : "U2";
+      batch.push({
+        event: {
+          type: "message",
+          at: at + i,
+          channel: "c1",
+          id: `m${i}`,
+          author,
+          parent: `m${i - 1}`,
+          mentions: ["LEAVER", "U3"],
+        },
+        deliveryKey: `m${i}`,
+      });
+    }
+    await ingestBatch(store, batch);
+    await store.addFacilitator("c1", "LEAVER");
+    const started = process.hrtime.bigint();
+    await leave(store, "c1", "LEAVER");
+    const ms = Number(process.hrtime.bigint() - started) / 1e6;
+    const key = store.memberKey("LEAVER");
+    await store.close();
+    const raw = new Database(path, { readonly: true });
+    const tables = raw.prepare("SELECT name FROM sqlite_master WHERE type = 'table'").all() as {
+      name: string;
+    }[];
+    const dump = tables
+      .map((t) => JSON.stringify(raw.prepare(`SELECT * FROM "${t.name}"`).all()))
+      .join("\n");
+    const messages = raw.prepare("SELECT COUNT(*) FROM message").pluck().get();
+    raw.close();
+    expect(dump).not.toContain(key);
+    expect(dump).not.toContain("LEAVER");
+    expect(messages).toBe(500);
+    console.log(
+      `leave: 0 rows left naming the member after erasing ~2,500 rows in ${ms.toFixed(1)} ms`,
+    );
   });
 
   it("rejects bad URLs naming the accepted forms", () => {
