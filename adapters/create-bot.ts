@@ -74,7 +74,22 @@ export function createBot(options: BotOptions): Bot {
     return digestMessage({ report, previous: previous.sufficient ? previous : null, policy });
   }
 
+  // A quiet channel is re-evaluated at most daily: with no new event the figures only drift with
+  // decay, and a note is about a change in who the channel listens to.
+  const lastNoteCheck = new Map<string, { at: number; lastEventAt: number | null }>();
+
   async function composeNote(channel: string, now: number): Promise<NoteComposition | null> {
+    const info = (await store.listChannels()).find((c) => c.channel === channel);
+    const lastEventAt = info?.lastEventAt ?? null;
+    const previousCheck = lastNoteCheck.get(channel);
+    if (
+      previousCheck &&
+      previousCheck.lastEventAt === lastEventAt &&
+      now - previousCheck.at < DAY_MS
+    ) {
+      return null;
+    }
+    lastNoteCheck.set(channel, { at: now, lastEventAt });
     const { settings, report } = await analyse(channel, now);
     if (settings.notes === "off" || !report.sufficient) return null;
     const decision = await noteDecision(store, channel, report, now, settings.notes);

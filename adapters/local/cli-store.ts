@@ -141,13 +141,13 @@ async function guarded(name: string, io: CliIo, body: () => Promise<number>): Pr
   }
 }
 
-function databaseUrl(flag: unknown, io: CliIo): string {
+export function databaseUrl(flag: unknown, io: CliIo): string {
   if (typeof flag === "string") return flag;
   const env = io.env.DATABASE_URL;
   return env !== undefined && env !== "" ? env : DEFAULT_DATABASE_URL;
 }
 
-function storeOptions(io: CliIo): OpenStoreOptions {
+export function storeOptions(io: CliIo): OpenStoreOptions {
   const { PLUMBLINE_ID_KEY: idKey, PLUMBLINE_ID_KEY_FILE: idKeyFile } = io.env;
   return {
     cwd: io.cwd,

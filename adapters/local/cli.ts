@@ -9,31 +9,50 @@ import { runAnalyze, runCompare, runWhatIf } from "./cli-analyze.js";
 import { runConsole } from "./cli-console.js";
 import { runDemo } from "./cli-demo.js";
 import type { CliIo } from "./cli-io.js";
+import { runIngest, runMigrate, runPurge } from "./cli-store.js";
 
 type Command = (argv: readonly string[], io: CliIo) => Promise<number>;
 
-const COMMANDS: Record<string, { run: Command; summary: string }> = {
+const COMMANDS: Record<string, { run: Command; summary: string; about: string }> = {
   analyze: {
     run: runAnalyze,
-    summary: "analyze <log> [flags] [--json]     influence shares, effective voices, structure",
+    summary: "analyze <log> [flags] [--json]",
+    about: "influence shares, effective voices, structure",
   },
   compare: {
     run: runCompare,
-    summary: "compare <log> --a RANGE --b RANGE   two periods side by side, P(B more balanced)",
+    summary: "compare <log> --a RANGE --b RANGE",
+    about: "two periods side by side, P(B more balanced)",
   },
   whatif: {
     run: runWhatIf,
-    summary:
-      "whatif <log> --cap SHARE            recompute with attention to any one member capped",
+    summary: "whatif <log> --cap SHARE",
+    about: "recompute with attention to any one member capped",
+  },
+  ingest: {
+    run: runIngest,
+    summary: "ingest <log> [--db URL]",
+    about: "import a log into the store (importing twice changes nothing)",
+  },
+  migrate: {
+    run: runMigrate,
+    summary: "migrate [--db URL]",
+    about: "bring the store's schema up to date",
+  },
+  purge: {
+    run: runPurge,
+    summary: "purge [--db URL]",
+    about: "drop signals past retention (91 days) and old delivery keys",
   },
   console: {
     run: runConsole,
-    summary:
-      "console [--facilitator NAME]       type as members, run commands, see the bot's answers",
+    summary: "console [--facilitator NAME]",
+    about: "type as members, run commands, see the bot's answers",
   },
   demo: {
     run: runDemo,
-    summary: "demo [--write-log FILE]            the invented scenario, analysed and compared",
+    summary: "demo [--write-log FILE]",
+    about: "the invented scenario replayed through the bot: digests, notes, commands",
   },
 };
 
@@ -42,11 +61,11 @@ export const HELP = `plumbline: how evenly a chat channel's discussion pools wha
 Usage: plumbline <command> [arguments]
 
 Commands:
-${Object.values(COMMANDS)
-  .map((c) => `  ${c.summary}`)
+${[...Object.values(COMMANDS), { summary: "help", about: "this text" }]
+  .map((c) => `  ${c.summary.padEnd(36)}${c.about}`)
   .join("\n")}
-  help                               this text
 
+Every analysing command reads a log, or the store with --db URL --channel C.
 Model flags (analyze, compare, whatif): --channel C --until TIME --window DAYS --half-life DAYS
   --reply-weight W --mention-weight W --background B --self-weight S --samples K --interval P
   --seed N --threshold auto|SHARE --min-members N --min-signals N --skip-bad --json

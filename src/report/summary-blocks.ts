@@ -39,6 +39,10 @@ function structureText(report: AnalysisReport): string {
   return `settles on one consensus; disagreement halves ${rounds} of averaging (|λ2| = ${c.secondEigenvalue?.toFixed(2)})`;
 }
 
+function aboveLine(who: string): string {
+  return who.startsWith("you") ? "you are above it" : `${who} is above it`;
+}
+
 /** Blocks summarising one report for a reader with the given naming policy. */
 export function summaryBlocks(
   report: AnalysisReport,
@@ -85,8 +89,8 @@ export function summaryBlocks(
       label: "Line",
       value: percent(report.line.threshold),
       detail: report.line.crossed
-        ? `crossed: ${label(report.line.member ?? "")} is above it with probability ${percent(report.line.probability)}`
-        : `not crossed (highest probability of being above it: ${percent(report.line.probability)})`,
+        ? `crossed: ${aboveLine(label(report.line.member ?? ""))} with probability ${percent(report.line.probability)}`
+        : `not crossed; nobody is above it with probability ${percent(report.settings.confidence)} or more`,
     });
   }
   rows.push({ label: "Structure", value: structureText(report) });
