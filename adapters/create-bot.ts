@@ -46,6 +46,8 @@ export interface Bot {
   onCommand(context: Omit<CommandContext, "now"> & { now?: number }): Promise<CommandResponse>;
   readonly scheduler: Scheduler;
   readonly commandDeps: CommandDeps;
+  /** The store, for adapters' erasure on leave/uninstall and conversation references. */
+  readonly store: Store;
 }
 
 export function createBot(options: BotOptions): Bot {
@@ -130,6 +132,7 @@ export function createBot(options: BotOptions): Bot {
   return {
     scheduler,
     commandDeps,
+    store,
     onEvent(event, deliveryKey) {
       return ingest(store, event, deliveryKey, { receivedAt: clock.now() });
     },
