@@ -3,18 +3,17 @@
  * Closed groups of the β = 0 view (DESIGN.md §4 step 8): the graph has an edge i→j for every
  * C_ij > 0, and a member with no outgoing signal attends evenly to everyone else. Its strongly
  * connected components (Tarjan 1972, "Depth-first search and linear graph algorithms", SIAM J.
- * Comput. 1:146–160; computed by graphology-components) that no edge leaves are the closed
+ * Comput. 1:146–160; an explicit-stack version in strongly-connected.ts, cross-checked against
+ * graphology-components in the tests) that no edge leaves are the closed
  * classes of the chain (Seneta 2006, "Non-negative Matrices and Markov Chains", ch. 1). The even
  * rows are never materialised: a silent member reaches everyone in one step, so a closed group
  * containing one must be everyone, and everyone is a closed group exactly when no closed component
  * of C alone avoids the silent members. The period of a class is the gcd of level(u) + 1 − level(v)
  * over its edges with breadth-first levels (Denardo 1977, "Periods of connected networks and powers
  * of nonnegative matrices", Math. Oper. Res. 2:20–24). Cost O(n + nonzeros). (The library's
- * recursive search overflows the call stack on attention paths of ~10⁴ members; an explicit-stack
- * Tarjan in strongly-connected.ts takes over then.)
+ * recursive search overflows the call stack on attention paths of ~10⁴ members and, working on a
+ * graphology graph, was 25× slower at 2,000 members, so it serves only as the tests' reference.)
  */
-import { DirectedGraph } from "graphology";
-import { stronglyConnectedComponents } from "graphology-components";
 import type { CountMatrix, IndexGroups } from "../domain/counts.js";
 import { stronglyConnectedIndices } from "./strongly-connected.js";
 
@@ -27,7 +26,7 @@ export function findClosedGroups(counts: CountMatrix): IndexGroups {
   if (n === 0) return [];
   const { rowPtr, colIdx } = counts;
   const component = new Int32Array(n);
-  const components = supportComponents(counts).map((nodes, c) => {
+  const components = stronglyConnectedIndices(counts).map((nodes, c) => {
     const members = [...nodes].sort((a, b) => a - b);
     for (const i of members) component[i] = c;
     return members;
@@ -54,28 +53,6 @@ export function findClosedGroups(counts: CountMatrix): IndexGroups {
     return [Array.from({ length: n }, (_, i) => i)];
   }
   return closed.sort((a, b) => a[0] - b[0]);
-}
-
-/**
- * Strongly connected components of the support of C by graphology-components; on a path too deep
- * for its recursion (a RangeError), by the explicit-stack version of the same algorithm.
- */
-function supportComponents(counts: CountMatrix): number[][] {
-  const n = counts.members.length;
-  const { rowPtr, colIdx } = counts;
-  const graph = new DirectedGraph();
-  for (let i = 0; i < n; i++) graph.addNode(String(i));
-  for (let i = 0; i < n; i++) {
-    for (let k = rowPtr[i]; k < rowPtr[i + 1]; k++) {
-      graph.addDirectedEdge(String(i), String(colIdx[k]));
-    }
-  }
-  try {
-    return stronglyConnectedComponents(graph).map((nodes) => nodes.map(Number));
-  } catch (error) {
-    if (error instanceof RangeError) return stronglyConnectedIndices(counts);
-    throw error;
-  }
 }
 
 /** Whether member `i` has no outgoing signal (its β = 0 row is even over the others). */

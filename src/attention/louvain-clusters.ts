@@ -30,21 +30,21 @@ export interface Clusters {
 export function louvainClusters(counts: CountMatrix, options: { seed: number }): Clusters | null {
   const n = counts.members.length;
   const { rowPtr, colIdx, values } = counts;
-  const graph = new UndirectedGraph<Record<string, never>, { weight: number }>();
-  for (let i = 0; i < n; i++) graph.addNode(String(i));
+  // C + Cᵀ per unordered pair, summed first so each edge is added to the graph once.
+  const pairs = new Map<number, number>();
   for (let i = 0; i < n; i++) {
     for (let k = rowPtr[i]; k < rowPtr[i + 1]; k++) {
       const j = colIdx[k];
       if (j === i || !(values[k] > 0)) continue;
-      const key = i < j ? `${i}-${j}` : `${j}-${i}`;
-      if (graph.hasEdge(key)) {
-        graph.updateEdgeAttribute(key, "weight", (w) => (w ?? 0) + values[k]);
-      } else {
-        graph.addUndirectedEdgeWithKey(key, String(Math.min(i, j)), String(Math.max(i, j)), {
-          weight: values[k],
-        });
-      }
+      const key = i < j ? i * n + j : j * n + i;
+      pairs.set(key, (pairs.get(key) ?? 0) + values[k]);
     }
+  }
+  const graph = new UndirectedGraph<Record<string, never>, { weight: number }>();
+  for (let i = 0; i < n; i++) graph.addNode(String(i));
+  for (const key of [...pairs.keys()].sort((a, b) => a - b)) {
+    const i = Math.floor(key / n);
+    graph.addUndirectedEdge(String(i), String(key - i * n), { weight: pairs.get(key) ?? 0 });
   }
   if (graph.size === 0) return null;
 

@@ -30,6 +30,41 @@ export interface PosteriorOptions {
   readonly start?: Float64Array;
 }
 
+/** Reusable storage for posterior draws of one count matrix. */
+export interface DrawBuffer {
+  readonly rows: AttentionRows;
+  readonly values: Float64Array;
+  readonly rest: Float64Array;
+  readonly logs: Float64Array;
+}
+
+export function createDrawBuffer(counts: CountMatrix): DrawBuffer {
+  const n = counts.members.length;
+  const nnz = counts.values.length;
+  const values = new Float64Array(nnz);
+  const rest = new Float64Array(n);
+  return {
+    rows: { n, rowPtr: counts.rowPtr, colIdx: counts.colIdx, values, rest },
+    values,
+    rest,
+    logs: new Float64Array(nnz),
+  };
+}
+
+/**
+ * Overwrites `buffer.rows` with the next posterior draw of A (the same draw sequence as
+ * `drawAttentionRows` and `posteriorShares` for the same sampler).
+ */
+export function drawIntoBuffer(
+  counts: CountMatrix,
+  background: number,
+  gamma: GammaSampler,
+  buffer: DrawBuffer,
+): AttentionRows {
+  drawInto(counts, background, gamma, buffer);
+  return buffer.rows;
+}
+
 /** Fills `values` and `rest` with one posterior draw of A; `logs` is scratch of nnz length. */
 function drawInto(
   counts: CountMatrix,

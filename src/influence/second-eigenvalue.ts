@@ -33,8 +33,9 @@ export interface IterativeEigenOptions {
 const DEFAULTS = {
   blockSize: 8,
   krylovDimension: 40,
-  // Reported to 6 decimals; 1e-9 relative between restarts leaves ample margin.
-  tolerance: 1e-9,
+  // Reported to 6 decimals; 1e-7 relative between restarts matched the dense solver to 1e-12
+  // at n = 300 and moved the n = 2,000 result by 1e-8.
+  tolerance: 1e-7,
   maxRestarts: 2_000,
   denseLimit: 150,
 } as const;
