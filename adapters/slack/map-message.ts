@@ -1,0 +1,136 @@
+/**
+ * @module map-message
+ * Turns one Slack `message` event (inside its Events API envelope) into the neutral `ChatEvent`,
+ * keeping ids and times only: mentions come from the rich_text `user` elements, else from `<@U…>`
+ * in the text, and the text itself is dropped here (it is never returned, stored or logged).
+ * Thread replies carry `thread_ts` (the root's ts, the parent's id) and `parent_user_id` (its
+ * author); `message_changed` becomes an `edit` of the original ts with the new mention list,
+ * `message_deleted` a `delete` of `deleted_ts`. Bot messages and the bot's own are ignored.
+ */
+import type { ChatEvent } from "../../src/domain/events.js";
+import { coreChannelId, isSlackId } from "./channel-ids.js";
+
+export type MappedMessage =
+  | { readonly kind: "event"; readonly event: ChatEvent }
+  | { readonly kind: "ignored"; readonly reason: string }
+  /** A message event missing a field it needs; nothing is stored. */
+  | { readonly kind: "invalid"; readonly field: string };
+
+export interface MapMessageInput {
+  /** The envelope's `team_id`. */
+  readonly team: string;
+  /** The `event` object of the envelope. */
+  readonly event: unknown;
+  /** The bot's own user id (its messages are ignored). */
+  readonly botUserId: string;
+}
+
+/** Subtypes that are a member's message (counted like a plain one). */
+const MESSAGE_SUBTYPES = new Set(["thread_broadcast", "file_share", "me_message"]);
+
+const TEXT_MENTION = /<@([UW][A-Z0-9]+)(?:\|[^>]*)?>/g;
+const SLACK_TS = /^\d{1,12}(\.\d{1,6})?$/;
+
+export function isRecord(value: unknown): value is Record<string, unknown> {
+  return typeof value === "object" && value !== null && !Array.isArray(value);
+}
+
+function field(record: Record<string, unknown>, key: string): string | undefined {
+  const value = record[key];
+  return typeof value === "string" && value !== "" ? value : undefined;
+}
+
+/** Epoch ms of a Slack ts ("1700000000.000100"); null when it is not one. */
+export function tsToMillis(ts: string | undefined): number | null {
+  if (ts === undefined || !SLACK_TS.test(ts)) return null;
+  return Math.round(Number(ts) * 1000);
+}
+
+function walkRichText(node: unknown, into: Set<string>): void {
+  if (Array.isArray(node)) {
+    for (const child of node) walkRichText(child, into);
+    return;
+  }
+  if (!isRecord(node)) return;
+  if (node.type === "user" && isSlackId(node.user_id)) into.add(node.user_id);
+  if (node.elements !== undefined) walkRichText(node.elements, into);
+}
+
+/** Mentioned user ids of a message: rich_text `user` elements, else `<@U…>` in the text. */
+export function mentionsOf(message: Record<string, unknown>): string[] {
+  const blocks = Array.isArray(message.blocks) ? message.blocks : [];
+  const rich = blocks.filter((b) => isRecord(b) && b.type === "rich_text");
+  const found = new Set<string>();
+  if (rich.length > 0) {
+    walkRichText(rich, found);
+  } else if (typeof message.text === "string") {
+    for (const match of message.text.matchAll(TEXT_MENTION)) found.add(match[1]);
+  }
+  return [...found].sort();
+}
+
+function fromBot(message: Record<string, unknown>, botUserId: string): boolean {
+  return (
+    message.subtype === "bot_message" ||
+    typeof message.bot_id === "string" ||
+    message.user === botUserId
+  );
+}
+
+/** Maps one message event; see the module header for the rules. */
+export function mapMessage(input: MapMessageInput): MappedMessage {
+  const { event, team, botUserId } = input;
+  if (!isRecord(event)) return { kind: "invalid", field: "event" };
+  const channelId = field(event, "channel");
+  if (!isSlackId(channelId)) return { kind: "invalid", field: "event.channel" };
+  if (event.channel_type === "im") return { kind: "ignored", reason: "direct message" };
+  const channel = coreChannelId(team, channelId);
+  const subtype = field(event, "subtype");
+
+  if (subtype === "message_changed") {
+    const inner = event.message;
+    if (!isRecord(inner)) return { kind: "invalid", field: "event.message" };
+    if (fromBot(inner, botUserId)) return { kind: "ignored", reason: "bot message" };
+    const id = field(inner, "ts");
+    const at = tsToMillis(field(event, "event_ts") ?? field(event, "ts"));
+    if (tsToMillis(id) === null || id === undefined) {
+      return { kind: "invalid", field: "event.message.ts" };
+    }
+    if (at === null) return { kind: "invalid", field: "event.ts" };
+    return { kind: "event", event: { type: "edit", at, channel, id, mentions: mentionsOf(inner) } };
+  }
+  if (subtype === "message_deleted") {
+    const id = field(event, "deleted_ts");
+    const at = tsToMillis(field(event, "event_ts") ?? field(event, "ts"));
+    if (id === undefined || tsToMillis(id) === null) {
+      return { kind: "invalid", field: "event.deleted_ts" };
+    }
+    if (at === null) return { kind: "invalid", field: "event.ts" };
+    return { kind: "event", event: { type: "delete", at, channel, id } };
+  }
+  if (subtype !== undefined && !MESSAGE_SUBTYPES.has(subtype)) {
+    return { kind: "ignored", reason: `subtype ${subtype}` };
+  }
+  if (fromBot(event, botUserId)) return { kind: "ignored", reason: "bot message" };
+  const author = field(event, "user");
+  if (!isSlackId(author)) return { kind: "invalid", field: "event.user" };
+  const id = field(event, "ts");
+  const at = tsToMillis(id);
+  if (id === undefined || at === null) return { kind: "invalid", field: "event.ts" };
+  const threadTs = field(event, "thread_ts");
+  const isReply = threadTs !== undefined && threadTs !== id && tsToMillis(threadTs) !== null;
+  const parentAuthor = field(event, "parent_user_id");
+  return {
+    kind: "event",
+    event: {
+      type: "message",
+      at,
+      channel,
+      id,
+      author,
+      ...(isReply ? { parent: threadTs } : {}),
+      ...(isReply && isSlackId(parentAuthor) ? { parentAuthor } : {}),
+      mentions: mentionsOf(event),
+    },
+  };
+}
