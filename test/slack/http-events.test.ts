@@ -6,7 +6,7 @@
  * `events/message.d.ts`).
  */
 import { readFileSync } from "node:fs";
-import { afterEach, beforeEach, describe, expect, it } from "vitest";
+import { afterEach, beforeEach, describe, expect, it, vi } from "vitest";
 import {
   CHANNEL,
   consent,
@@ -56,6 +56,18 @@ describe("slack events over HTTP", () => {
     (again.event as Record<string, unknown>).ts = "1793606461.000100";
     const second = await sendSigned(h, again);
     expect([first.status, second.status]).toEqual([200, 200]);
+    expect((await messages()).map((m) => m.id)).toEqual(["1793606460.000100"]);
+  });
+
+  it("answers 500 when ingestion fails, so Slack retries, and the retry counts once", async () => {
+    await consent(h, ["U0ANA", "U0BO"]);
+    const original = h.bot.onEvent.bind(h.bot);
+    const spy = vi.spyOn(h.bot, "onEvent").mockRejectedValueOnce(new Error("database is locked"));
+    expect((await sendSigned(h, fixture("message.json"))).status).toBe(500);
+    expect(await messages()).toEqual([]);
+    spy.mockImplementation(original);
+    expect((await sendSigned(h, fixture("message.json"))).status).toBe(200);
+    expect((await sendSigned(h, fixture("message.json"))).status).toBe(200);
     expect((await messages()).map((m) => m.id)).toEqual(["1793606460.000100"]);
   });
 

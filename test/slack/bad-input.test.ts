@@ -1,0 +1,165 @@
+/**
+ * Every bad request gets its status code, stores nothing and leaves the server running. The
+ * expectations follow Slack's request verification rules (docs.slack.dev/authentication/
+ * verifying-requests-from-slack: v0 HMAC-SHA256 over `v0:timestamp:body`, five-minute window) and
+ * the bad-input table in the project's reliability notes (401 / 400 / 413 / 200).
+ */
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { MAX_BODY_BYTES } from "../../adapters/slack/request-guard.js";
+import {
+  CHANNEL,
+  consent,
+  fixture,
+  fixtureText,
+  type Harness,
+  post,
+  signedHeaders,
+  startHarness,
+} from "./harness.js";
+
+let h: Harness;
+
+beforeAll(async () => {
+  h = await startHarness();
+  await consent(h, ["U0ANA", "U0BO"]);
+});
+
+afterAll(async () => {
+  await h.close();
+});
+
+const message = () => JSON.stringify(fixture("message.json"));
+const MINUTE = 60_000;
+
+interface Case {
+  readonly name: string;
+  readonly status: number;
+  readonly send: () => Promise<{ status: number; body: string }>;
+}
+
+const cases: Case[] = [
+  {
+    name: "bad signature",
+    status: 401,
+    send: () => {
+      const headers = signedHeaders(message(), h.clock.now());
+      headers["x-slack-signature"] = `v0=${"0".repeat(64)}`;
+      return post(h.port, message(), headers);
+    },
+  },
+  {
+    name: "signature made with another secret",
+    status: 401,
+    send: () => {
+      const body = message();
+      const headers = signedHeaders(`${body} `, h.clock.now());
+      return post(h.port, body, headers);
+    },
+  },
+  {
+    name: "missing signature headers",
+    status: 401,
+    send: () => post(h.port, message(), { "content-type": "application/json" }),
+  },
+  {
+    name: "timestamp 6 minutes old",
+    status: 401,
+    send: () => post(h.port, message(), signedHeaders(message(), h.clock.now() - 6 * MINUTE)),
+  },
+  {
+    name: "timestamp 6 minutes in the future",
+    status: 401,
+    send: () => post(h.port, message(), signedHeaders(message(), h.clock.now() + 6 * MINUTE)),
+  },
+  {
+    name: "malformed JSON with a good signature",
+    status: 400,
+    send: () => {
+      const body = fixtureText("malformed.json.txt");
+      return post(h.port, body, signedHeaders(body, h.clock.now()));
+    },
+  },
+  {
+    name: "body over 1 MB (signed)",
+    status: 413,
+    send: () => {
+      const body = Buffer.alloc(MAX_BODY_BYTES + 1, 0x20);
+      return post(h.port, body, signedHeaders(body, h.clock.now()));
+    },
+  },
+  {
+    name: "envelope without event_id",
+    status: 400,
+    send: () => {
+      const body = fixtureText("missing-event-id.json");
+      return post(h.port, body, signedHeaders(body, h.clock.now()));
+    },
+  },
+  {
+    name: "JSON without a type",
+    status: 400,
+    send: () => {
+      const body = JSON.stringify({ team_id: "T0PLUMB" });
+      return post(h.port, body, signedHeaders(body, h.clock.now()));
+    },
+  },
+  {
+    name: "message event without a user",
+    status: 200,
+    send: () => {
+      const body = fixtureText("message-missing-user.json");
+      return post(h.port, body, signedHeaders(body, h.clock.now()));
+    },
+  },
+  {
+    name: "unknown event type",
+    status: 200,
+    send: () => {
+      const body = fixtureText("unknown-event-type.json");
+      return post(h.port, body, signedHeaders(body, h.clock.now()));
+    },
+  },
+];
+
+describe("bad input", () => {
+  for (const c of cases) {
+    it(`${c.name} → ${c.status}, nothing stored`, async () => {
+      const reply = await c.send();
+      expect(reply.status).toBe(c.status);
+      expect((await h.store.loadSnapshot(CHANNEL)).messages).toEqual([]);
+      // The server still answers a good request afterwards (nothing is stored from it either:
+      // url_verification only echoes its challenge).
+      const ping = JSON.stringify(fixture("url-verification.json"));
+      const pong = await post(h.port, ping, signedHeaders(ping, h.clock.now()));
+      expect(pong.status).toBe(200);
+    });
+  }
+
+  it("answers url_verification with its challenge", async () => {
+    const body = fixtureText("url-verification.json");
+    const reply = await post(h.port, body, signedHeaders(body, h.clock.now()));
+    expect(reply.status).toBe(200);
+    expect(JSON.parse(reply.body)).toEqual({
+      challenge: fixture("url-verification.json").challenge,
+    });
+  });
+
+  it("refuses other methods with 405", async () => {
+    const reply = await new Promise<number>((resolve, reject) => {
+      import("node:http").then(({ get }) =>
+        get({ host: "127.0.0.1", port: h.port, path: "/slack/events" }, (res) => {
+          res.resume();
+          resolve(res.statusCode ?? 0);
+        }).on("error", reject),
+      );
+    });
+    expect(reply).toBe(405);
+  });
+
+  it("accepts a timestamp 4 minutes off, so the window is 5 minutes and not less", async () => {
+    const body = JSON.stringify({ ...fixture("message.json"), event_id: "Ev0SKEW00001" });
+    const reply = await post(h.port, body, signedHeaders(body, h.clock.now() + 4 * MINUTE));
+    expect(reply.status).toBe(200);
+    expect((await h.store.loadSnapshot(CHANNEL)).messages).toHaveLength(1);
+  });
+});
