@@ -1,0 +1,128 @@
+/**
+ * @module send-queue
+ * Paces and retries sends per Teams conversation. Sends to one conversation run one at a time and
+ * at most `perSecond` in any rolling second (Teams allows 7 sends per second per bot per
+ * conversation: learn.microsoft.com/microsoftteams/platform/bots/how-to/rate-limit). A send that
+ * Teams refused for capacity — HTTP 429, 412, 502 or 504, the codes that page says to retry, or a
+ * refused connection — is tried again after an exponential delay with jitter ("equal jitter",
+ * M. Brooker, 2015, "Exponential Backoff And Jitter", AWS Architecture Blog), never shorter than a
+ * `Retry-After` header. Any other failure, including a timeout or a reset connection whose outcome
+ * is unknown, is thrown at once: a post is never resent when it may have arrived. Time and sleep
+ * are injected, so tests never wait.
+ */
+
+export interface SendQueueOptions {
+  /** Sends per rolling second per conversation; default 6 (under Teams' 7). */
+  readonly perSecond?: number;
+  /** Attempts per send including the first; default 5. */
+  readonly maxAttempts?: number;
+  readonly baseDelayMs?: number;
+  readonly maxDelayMs?: number;
+  readonly now: () => number;
+  readonly sleep: (ms: number) => Promise<void>;
+  /** Uniform in [0, 1); default Math.random. */
+  readonly random?: () => number;
+}
+
+const RETRY_STATUSES = new Set([412, 429, 502, 504]);
+const RETRY_CODES = new Set(["ECONNREFUSED"]);
+
+function field(value: unknown, key: string): unknown {
+  return typeof value === "object" && value !== null
+    ? (value as Record<string, unknown>)[key]
+    : undefined;
+}
+
+/** The HTTP status of a failed send (the SDK's RestError carries `statusCode`), if any. */
+export function statusOf(error: unknown): number | null {
+  const direct = field(error, "statusCode");
+  if (typeof direct === "number") return direct;
+  const status = field(field(error, "response"), "status");
+  return typeof status === "number" ? status : null;
+}
+
+/** `Retry-After` of a failed send in ms (seconds or an HTTP date), or null. */
+export function retryAfterMs(error: unknown, now: number): number | null {
+  const headers = field(field(error, "response"), "headers");
+  const get = field(headers, "get");
+  const raw =
+    typeof get === "function"
+      ? (get as (name: string) => unknown).call(headers, "retry-after")
+      : field(headers, "retry-after");
+  if (typeof raw !== "string" || raw.trim() === "") return null;
+  const seconds = Number(raw);
+  if (Number.isFinite(seconds)) return Math.max(0, seconds * 1000);
+  const date = Date.parse(raw);
+  return Number.isFinite(date) ? Math.max(0, date - now) : null;
+}
+
+/** True when Teams certainly did not accept the send and asked for a later try. */
+export function isRetryable(error: unknown): boolean {
+  const status = statusOf(error);
+  if (status !== null) return RETRY_STATUSES.has(status);
+  const code = field(error, "code");
+  return typeof code === "string" && RETRY_CODES.has(code);
+}
+
+export class SendQueue {
+  private readonly tails = new Map<string, Promise<unknown>>();
+  private readonly recent = new Map<string, number[]>();
+  private readonly perSecond: number;
+  private readonly maxAttempts: number;
+  private readonly baseDelayMs: number;
+  private readonly maxDelayMs: number;
+  private readonly random: () => number;
+
+  constructor(private readonly options: SendQueueOptions) {
+    this.perSecond = options.perSecond ?? 6;
+    this.maxAttempts = options.maxAttempts ?? 5;
+    this.baseDelayMs = options.baseDelayMs ?? 1000;
+    this.maxDelayMs = options.maxDelayMs ?? 32_000;
+    this.random = options.random ?? Math.random;
+  }
+
+  /** Runs `attempt` for conversation `key` after earlier sends there, paced and retried. */
+  send<T>(key: string, attempt: () => Promise<T>): Promise<T> {
+    const previous = this.tails.get(key) ?? Promise.resolve();
+    const run = previous.catch(() => undefined).then(() => this.withRetries(key, attempt));
+    const tail = run.catch(() => undefined);
+    this.tails.set(key, tail);
+    void tail.then(() => {
+      if (this.tails.get(key) === tail) this.tails.delete(key);
+    });
+    return run;
+  }
+
+  /** The delay before retry number `retry` (1-based): half fixed, half jitter, capped. */
+  backoffMs(retry: number): number {
+    const ceiling = Math.min(this.maxDelayMs, this.baseDelayMs * 2 ** (retry - 1));
+    return ceiling / 2 + this.random() * (ceiling / 2);
+  }
+
+  private async withRetries<T>(key: string, attempt: () => Promise<T>): Promise<T> {
+    for (let tries = 1; ; tries++) {
+      await this.pace(key);
+      try {
+        return await attempt();
+      } catch (error) {
+        if (!isRetryable(error) || tries >= this.maxAttempts) throw error;
+        const wait = Math.max(this.backoffMs(tries), retryAfterMs(error, this.options.now()) ?? 0);
+        await this.options.sleep(wait);
+      }
+    }
+  }
+
+  private async pace(key: string): Promise<void> {
+    const window = this.recent.get(key) ?? [];
+    for (;;) {
+      const now = this.options.now();
+      while (window.length > 0 && window[0] <= now - 1000) window.shift();
+      if (window.length < this.perSecond) {
+        window.push(now);
+        this.recent.set(key, window);
+        return;
+      }
+      await this.options.sleep(window[0] + 1000 - now);
+    }
+  }
+}

@@ -1,0 +1,206 @@
+/**
+ * @module teams-platform
+ * The Teams `ChatPlatform`: posts go out proactively through `CloudAdapter.continueConversationAsync`
+ * with the channel's stored conversation reference (the bare channel id, so a digest is a new
+ * top-level post), as one Adaptive Card; private answers go to the member's personal conversation,
+ * opened with `createConversationAsync` when this process has none (the Bot Framework's way to
+ * start a 1:1 from a team: learn.microsoft.com/microsoftteams/platform/bots/how-to/conversations/
+ * send-proactive-messages). Every send passes the per-conversation `SendQueue`.
+ */
+import {
+  type CloudAdapter,
+  type ConversationParameters,
+  type ConversationReference,
+  TeamsInfo,
+  type TurnContext,
+} from "botbuilder";
+import type { ChatPlatform, OutgoingMessage } from "../../src/ports/chat-platform.js";
+import type { Logger } from "../../src/ports/logger.js";
+import type { Store } from "../../src/ports/store.js";
+import { platformConversationId } from "./activity-fields.js";
+import { cardActivity } from "./adaptive-card.js";
+import {
+  type ConversationState,
+  readConversationState,
+  type StoredReference,
+} from "./conversation-state.js";
+import type { MemberDirectory } from "./member-directory.js";
+import type { SendQueue } from "./send-queue.js";
+
+/** OAuth scope of the Bot Framework channel service (botframework-connector AuthenticationConstants). */
+const CHANNEL_AUDIENCE = "https://api.botframework.com";
+
+function sdkReference(
+  reference: StoredReference,
+  conversationId?: string,
+): Partial<ConversationReference> {
+  return {
+    channelId: reference.channelId,
+    serviceUrl: reference.serviceUrl,
+    conversation: {
+      id: conversationId ?? reference.conversation.id,
+      name: "",
+      isGroup: reference.conversation.isGroup ?? false,
+      conversationType: reference.conversation.conversationType ?? "",
+      ...(reference.conversation.tenantId ? { tenantId: reference.conversation.tenantId } : {}),
+    },
+    ...(reference.bot ? { bot: { id: reference.bot.id, name: reference.bot.name ?? "" } } : {}),
+  };
+}
+
+export interface TeamsPlatformOptions {
+  readonly adapter: CloudAdapter;
+  /** The bot's app id; "" when authentication is off (development). */
+  readonly appId: string;
+  readonly queue: SendQueue;
+  readonly directory: MemberDirectory;
+  readonly logger: Logger;
+}
+
+export class TeamsPlatform implements ChatPlatform {
+  readonly name = "teams";
+  private store: Store | null = null;
+  private readonly personal = new Map<string, Partial<ConversationReference>>();
+
+  constructor(private readonly options: TeamsPlatformOptions) {}
+
+  /** Gives the platform the bot's store (conversation references live there). */
+  attach(store: Store): void {
+    this.store = store;
+  }
+
+  private async state(channel: string): Promise<ConversationState> {
+    if (this.store === null) throw new Error("the Teams platform is not started");
+    const state = await readConversationState(this.store, channel);
+    if (state === null) {
+      throw new Error(
+        `no conversation reference for ${channel}: add the plumbline app to that team or chat again`,
+      );
+    }
+    return state;
+  }
+
+  /**
+   * A proactive turn's activity carries a made-up id, which the SDK would turn into `replyToId`
+   * (a reply to a message that does not exist); without it the post is a new top-level message.
+   */
+  private async sendProactive(context: TurnContext, message: OutgoingMessage): Promise<string> {
+    context.activity.id = undefined;
+    return this.sendInTurn(context, message);
+  }
+
+  /** Sends one message in the turn's conversation through the queue; resolves to its id. */
+  async sendInTurn(context: TurnContext, message: OutgoingMessage | string): Promise<string> {
+    const key = context.activity.conversation?.id ?? "";
+    const activity =
+      typeof message === "string" ? { type: "message", text: message } : cardActivity(message);
+    const response = await this.options.queue.send(key, () => context.sendActivity(activity));
+    return response?.id ?? "";
+  }
+
+  async postToChannel(channel: string, message: OutgoingMessage): Promise<{ messageId: string }> {
+    const { reference } = await this.state(channel);
+    let messageId = "";
+    await this.options.adapter.continueConversationAsync(
+      this.options.appId,
+      sdkReference(reference, platformConversationId(channel)),
+      async (context) => {
+        messageId = await this.sendProactive(context, message);
+      },
+    );
+    return { messageId };
+  }
+
+  async postPrivately(channel: string, member: string, message: OutgoingMessage): Promise<void> {
+    const state = await this.state(channel);
+    const account = this.options.directory.accountOf(member) ?? (await this.lookUp(state, member));
+    const reference = await this.personalReference(state, account);
+    await this.options.adapter.continueConversationAsync(
+      this.options.appId,
+      reference,
+      async (context) => {
+        await this.sendProactive(context, message);
+      },
+    );
+  }
+
+  /** Answers one member privately from a turn in a team or group chat. */
+  async answerPrivately(context: TurnContext, message: OutgoingMessage): Promise<void> {
+    const activity = context.activity;
+    const account = activity.from?.id;
+    if (!account) throw new Error("the activity names no sender");
+    const state: ConversationState = {
+      reference: {
+        channelId: activity.channelId,
+        serviceUrl: activity.serviceUrl,
+        conversation: { id: activity.conversation.id },
+        bot: { id: activity.recipient.id, name: activity.recipient.name },
+      },
+      teamId: null,
+      tenantId: activity.conversation.tenantId ?? "",
+    };
+    const reference = await this.personalReference(state, account);
+    await this.options.adapter.continueConversationAsync(
+      this.options.appId,
+      reference,
+      async (ctx) => {
+        await this.sendProactive(ctx, message);
+      },
+    );
+  }
+
+  async displayName(member: string): Promise<string | null> {
+    return this.options.directory.nameOf(member);
+  }
+
+  /** The member's channel account id from the conversation roster (Entra object id accepted). */
+  private async lookUp(state: ConversationState, member: string): Promise<string> {
+    let account: string | null = null;
+    await this.options.adapter.continueConversationAsync(
+      this.options.appId,
+      sdkReference(state.reference),
+      async (context) => {
+        const found = await TeamsInfo.getMember(context, member);
+        this.options.directory.learn(found);
+        account = found.id ?? null;
+      },
+    );
+    if (account === null) throw new Error("the roster did not name the member's account");
+    return account;
+  }
+
+  private async personalReference(
+    state: ConversationState,
+    account: string,
+  ): Promise<Partial<ConversationReference>> {
+    const known = this.personal.get(account);
+    if (known) return known;
+    const bot = state.reference.bot ?? { id: "" };
+    const parameters: ConversationParameters = {
+      isGroup: false,
+      bot: { id: bot.id, name: bot.name ?? "plumbline" },
+      members: [{ id: account, name: "" }],
+      tenantId: state.tenantId,
+      channelData: { tenant: { id: state.tenantId } },
+    };
+    let reference: Partial<ConversationReference> | null = null;
+    await this.options.adapter.createConversationAsync(
+      this.options.appId,
+      state.reference.channelId,
+      state.reference.serviceUrl,
+      CHANNEL_AUDIENCE,
+      parameters,
+      async (context) => {
+        reference = {
+          channelId: context.activity.channelId,
+          serviceUrl: context.activity.serviceUrl,
+          conversation: context.activity.conversation,
+          bot: parameters.bot,
+        };
+      },
+    );
+    if (reference === null) throw new Error("Teams did not open a personal conversation");
+    this.personal.set(account, reference);
+    return reference;
+  }
+}
