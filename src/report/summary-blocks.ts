@@ -4,40 +4,12 @@
  * and the line, structure, groups, contributors, a plain reading and the cautions.
  */
 import type { AnalysisReport } from "../domain/report.js";
-import type { BarRow, Block, FigureRow } from "./blocks.js";
+import type { Block, FigureRow } from "./blocks.js";
 import { CAUTIONS_LINE } from "./cautions.js";
-import { decimal1, isoDay, percent, percentRange, voicesOf } from "./format.js";
+import { neededText, shareBars, structureText, windowText } from "./digest-blocks.js";
+import { decimal1, percent, percentRange, voicesOf } from "./format.js";
 import { memberLabeller, type NamingPolicy } from "./naming.js";
 import { plainReading } from "./reading.js";
-
-function windowLine(report: AnalysisReport): string {
-  const w = report.window;
-  const decay = w.halfLifeDays > 0 ? `half-life ${w.halfLifeDays} days` : "no decay";
-  return `${isoDay(w.from)} to ${isoDay(w.until)} (${w.days} days, ${decay})`;
-}
-
-function neededText(report: AnalysisReport): string {
-  const needed = report.needed ?? { members: 0, signals: 0 };
-  const parts: string[] = [];
-  if (needed.members > 0) {
-    parts.push(`${needed.members} more opted-in active member${needed.members === 1 ? "" : "s"}`);
-  }
-  if (needed.signals > 0) {
-    parts.push(`${needed.signals} more replies or mentions between opted-in members`);
-  }
-  return `Too little data for figures: ${report.members} active members and ${report.signals} signals so far. Needed: ${parts.join(" and ")}.`;
-}
-
-function structureText(report: AnalysisReport): string {
-  const c = report.consensus;
-  if (!c) return "";
-  if (c.closedGroups > 1) {
-    return `${c.closedGroups} groups listen only among themselves: no single consensus`;
-  }
-  if (!c.reached || c.roundsToHalve === null) return "views keep circling: no settled consensus";
-  const rounds = c.roundsToHalve === 0 ? "at once" : `every ${decimal1(c.roundsToHalve)} rounds`;
-  return `settles on one consensus; disagreement halves ${rounds} of averaging (|λ2| = ${c.secondEigenvalue?.toFixed(2)})`;
-}
 
 function aboveLine(who: string): string {
   return who.startsWith("you") ? "you are above it" : `${who} is above it`;
@@ -51,7 +23,7 @@ export function summaryBlocks(
 ): Block[] {
   const blocks: Block[] = [
     { kind: "heading", text: options.title ?? `Influence balance · ${report.channel}` },
-    { kind: "note", text: windowLine(report) },
+    { kind: "note", text: windowText(report) },
   ];
   if (report.status === "insufficient") {
     blocks.push({ kind: "note", text: neededText(report) });
@@ -103,23 +75,11 @@ export function summaryBlocks(
   }
   blocks.push({ kind: "note", text: plainReading(report) });
   blocks.push({ kind: "figures", rows });
-  const maxBars = options.maxBars ?? 20;
-  const bars: BarRow[] = report.influence.slice(0, maxBars).map((e) => ({
-    label: label(e.member),
-    value: e.share,
-    low: e.low,
-    high: e.high,
-    text: `${percent(e.share)} (${percentRange(e.low, e.high)})`,
-  }));
-  const more = report.influence.length - bars.length;
-  blocks.push({
-    kind: "bars",
-    caption: `Influence shares, largest first (${Math.round(report.settings.interval * 100)}% interval in brackets${more > 0 ? `; ${more} more not shown` : ""})`,
-    rows: bars,
-    line: report.line?.threshold ?? null,
-  });
+  const bars = shareBars(report, policy, options.maxBars ?? 20);
+  if (bars) blocks.push(bars);
   const groups = report.groups ?? report.clusters?.groups ?? null;
-  if (groups && groups.length > 0) {
+  // One cluster covering everyone says nothing: clusters are shown only when there are several.
+  if (groups && (report.groups ? groups.length > 0 : groups.length > 1)) {
     const title = report.groups
       ? "Groups"
       : `Clusters found in the replies (modularity ${report.clusters?.modularity.toFixed(2)}, unnamed)`;

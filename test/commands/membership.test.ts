@@ -166,8 +166,8 @@ describe("too little data explains itself with numbers", () => {
     await mentions(r.store, { from: "UBO", to: "UCY", times: 3, at: T0 + DAY });
     // 3 active members and 7 signals; the defaults need 5 members and 20 signals.
     const check = (await r.run("UANA", "check")).message.text;
-    expect(check).toContain("3 active members and 7 signals");
-    expect(check).toContain("2 more opted-in active members");
+    expect(check).toContain("3 active opted-in members and 7 signals");
+    expect(check).toContain("2 more opted-in members taking part");
     expect(check).toContain("13 more replies or mentions");
     const me = (await r.run("UANA", "me")).message.text;
     expect(me).toContain("2 more opted-in members taking part and 13 more replies or mentions");
@@ -186,7 +186,7 @@ describe("too little data explains itself with numbers", () => {
     ] as const) {
       await mentions(r.store, { from, to, times: 7, at: T0 + DAY });
     }
-    expect((await r.run("UANA", "check")).message.text).toContain("2 more opted-in active members");
+    expect((await r.run("UANA", "check")).message.text).toContain("2 more opted-in members taking part");
     await r.run("UBOSS", "set minmembers 3");
     expect((await r.run("UANA", "check")).message.text).toMatch(/Effective voices\s+3\.0 of 3/);
   });
