@@ -1,0 +1,110 @@
+import { describe, expect, it } from "vitest";
+import { isRetryable, retryAfterMs, SendQueue } from "../../adapters/teams/send-queue.js";
+import { ManualClock } from "../../src/ports/clock.js";
+
+function queue(clock: ManualClock, sleeps: number[] = [], perSecond = 6) {
+  return new SendQueue({
+    perSecond,
+    now: () => clock.now(),
+    sleep: async (ms) => {
+      sleeps.push(ms);
+      clock.advance(ms);
+    },
+    random: () => 0.5,
+  });
+}
+
+const refused = (statusCode: number, retryAfter?: string) =>
+  Object.assign(new Error(`status ${statusCode}`), {
+    statusCode,
+    response: {
+      status: statusCode,
+      headers: { get: (n: string) => (n === "retry-after" ? retryAfter : undefined) },
+    },
+  });
+
+describe("SendQueue", () => {
+  // Teams allows 7 sends per second per bot per conversation (learn.microsoft.com, bots rate-limit page).
+  it("keeps any rolling second of one conversation under 7 sends", async () => {
+    const clock = new ManualClock(0);
+    const q = queue(clock);
+    const times: number[] = [];
+    await Promise.all(
+      Array.from({ length: 40 }, () => q.send("c1", async () => times.push(clock.now()))),
+    );
+    expect(times).toHaveLength(40);
+    for (let i = 0; i < times.length; i++) {
+      const inWindow = times.filter((t) => t > times[i] - 1000 && t <= times[i]).length;
+      expect(inWindow).toBeLessThanOrEqual(6);
+    }
+    for (let i = 1; i < times.length; i++) expect(times[i]).toBeGreaterThanOrEqual(times[i - 1]);
+  });
+
+  it("conversations are paced separately", async () => {
+    const clock = new ManualClock(0);
+    const sleeps: number[] = [];
+    const q = queue(clock, sleeps);
+    await Promise.all(
+      ["a", "b", "c"].flatMap((k) => Array.from({ length: 6 }, () => q.send(k, async () => 1))),
+    );
+    expect(sleeps).toEqual([]);
+  });
+
+  it("retries 429, 412, 502 and 504 with growing jittered delays, honouring Retry-After", async () => {
+    for (const status of [429, 412, 502, 504]) {
+      const clock = new ManualClock(0);
+      const sleeps: number[] = [];
+      let calls = 0;
+      const result = await queue(clock, sleeps).send("c", async () => {
+        calls += 1;
+        if (calls < 3) throw refused(status);
+        return "ok";
+      });
+      expect(result).toBe("ok");
+      expect(calls).toBe(3);
+      // random 0.5: half fixed plus a quarter of the ceiling (1 s, then 2 s).
+      expect(sleeps).toEqual([750, 1500]);
+    }
+    const clock = new ManualClock(0);
+    const sleeps: number[] = [];
+    let calls = 0;
+    await queue(clock, sleeps).send("c", async () => {
+      calls += 1;
+      if (calls === 1) throw refused(429, "7");
+      return "ok";
+    });
+    expect(sleeps).toEqual([7000]);
+  });
+
+  it("never retries an unknown outcome or a client error, and gives up after 5 attempts", async () => {
+    for (const error of [
+      refused(500),
+      refused(400),
+      Object.assign(new Error("reset"), { code: "ECONNRESET" }),
+    ]) {
+      let calls = 0;
+      await expect(
+        queue(new ManualClock(0)).send("c", async () => {
+          calls += 1;
+          throw error;
+        }),
+      ).rejects.toBe(error);
+      expect(calls).toBe(1);
+    }
+    let calls = 0;
+    await expect(
+      queue(new ManualClock(0)).send("c", async () => {
+        calls += 1;
+        throw refused(429);
+      }),
+    ).rejects.toThrow();
+    expect(calls).toBe(5);
+  });
+
+  it("reads Retry-After as seconds or an HTTP date", () => {
+    expect(retryAfterMs(refused(429, "2"), 0)).toBe(2000);
+    expect(retryAfterMs(refused(429, new Date(5000).toUTCString()), 0)).toBe(5000);
+    expect(retryAfterMs(refused(429), 0)).toBeNull();
+    expect(isRetryable(Object.assign(new Error("refused"), { code: "ECONNREFUSED" }))).toBe(true);
+  });
+});
