@@ -146,6 +146,41 @@ describe("Teams adapter over HTTP (authentication off, real CloudAdapter)", () =
     expect(digest?.messageId).toMatch(/^posted-/);
   });
 
+  it("a team owner's `check post` goes to the channel; a member's is refused privately", async () => {
+    await installAndJoin();
+    for (const name of ["channel-message.json", "thread-reply.json", "mention.json"])
+      await h.post(fixture(name));
+    const bare = `/amer/v3/conversations/${encodeURIComponent(CHANNEL_CONVERSATION)}/activities`;
+    const before = calls.length;
+    // Ben's roster entry says userRole "user": refused, answered in his personal chat.
+    expect((await h.post(commandFrom("ben", "check post", "0950"))).status).toBe(200);
+    expect(calls.slice(before).some((c) => c.method === "POST" && c.path === bare)).toBe(false);
+    // Carla's says "owner": a platform admin, so a facilitator; the check is posted top-level.
+    expect((await h.post(commandFrom("carla", "check post", "0951"))).status).toBe(200);
+    expect(calls.slice(before).filter((c) => c.method === "POST" && c.path === bare)).toHaveLength(
+      1,
+    );
+    expect((await snapshot()).messages).toHaveLength(3);
+  });
+
+  it("answers `influence` in a personal chat with a pointer to the channel", async () => {
+    const personal = commandFrom("ana", "me", "0960");
+    const activity = {
+      ...personal,
+      conversation: { conversationType: "personal", tenantId: "tenant-0001", id: "a:personal-ana" },
+      entities: [],
+      text: "influence me",
+    };
+    expect((await h.post(activity)).status).toBe(200);
+    const reply = calls.find((c) =>
+      c.path.startsWith(
+        `/amer/v3/conversations/${encodeURIComponent("a:personal-ana")}/activities`,
+      ),
+    );
+    expect((reply?.body as { text: string }).text).toMatch(/mention it there/);
+    expect(await h.store.listChannels()).toEqual([]);
+  });
+
   it("rejects bad bodies with 400 or 413 and keeps serving", async () => {
     expect((await h.post(fixtureText("bad-empty-object.json"))).status).toBe(400);
     expect((await h.post(fixtureText("bad-no-type.json"))).status).toBe(400);
