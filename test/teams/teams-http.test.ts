@@ -177,7 +177,8 @@ describe("Teams adapter over HTTP (authentication off, real CloudAdapter)", () =
         `/amer/v3/conversations/${encodeURIComponent("a:personal-ana")}/activities`,
       ),
     );
-    expect((reply?.body as { text: string }).text).toMatch(/mention it there/);
+    expect(reply).toBeDefined();
+    expect((reply?.body as { text?: string } | undefined)?.text).toMatch(/mention it there/);
     expect(await h.store.listChannels()).toEqual([]);
   });
 
