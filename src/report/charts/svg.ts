@@ -1,0 +1,77 @@
+/**
+ * @module svg
+ * Small, dependency-free helpers the chart modules share: XML escaping for every piece of text
+ * that reaches an SVG or HTML page, compact number output for coordinates, and the chart frame
+ * (a responsive `viewBox` with a title and description for screen readers). Escaping follows the
+ * XML 1.0 rules for character data and attribute values (W3C 2008, "Extensible Markup Language
+ * (XML) 1.0 (Fifth Edition)", §2.4), common practice for generated markup.
+ */
+
+/** Escapes text for XML/HTML character data and double-quoted attribute values. */
+export function escapeXml(text: string): string {
+  return text
+    .replace(/&/g, "&amp;")
+    .replace(/</g, "&lt;")
+    .replace(/>/g, "&gt;")
+    .replace(/"/g, "&quot;")
+    .replace(/'/g, "&#39;");
+}
+
+/** A coordinate with at most two decimals, no trailing zeros ("12.5", "3"). */
+export function num(x: number): string {
+  const rounded = Math.round(x * 100) / 100;
+  return Object.is(rounded, -0) ? "0" : String(rounded);
+}
+
+/** One `<text>` element; `anchor` is the SVG text-anchor. */
+export function text(args: {
+  x: number;
+  y: number;
+  content: string;
+  anchor?: "start" | "middle" | "end";
+  size?: number;
+  weight?: "normal" | "bold";
+  fill?: string;
+  className?: string;
+}): string {
+  const attrs = [
+    `x="${num(args.x)}"`,
+    `y="${num(args.y)}"`,
+    args.anchor && args.anchor !== "start" ? `text-anchor="${args.anchor}"` : "",
+    args.size ? `font-size="${num(args.size)}"` : "",
+    args.weight === "bold" ? `font-weight="bold"` : "",
+    args.fill ? `fill="${args.fill}"` : "",
+    args.className ? `class="${args.className}"` : "",
+  ].filter((a) => a !== "");
+  return `<text ${attrs.join(" ")}>${escapeXml(args.content)}</text>`;
+}
+
+/** The font stack of every chart: system sans-serif fonts only, nothing fetched. */
+export const CHART_FONT =
+  "system-ui, -apple-system, 'Segoe UI', Roboto, 'DejaVu Sans', Arial, sans-serif";
+
+/**
+ * Wraps chart content in a responsive `<svg>`: it scales with its container through `viewBox`
+ * (no fixed pixel width), carries a title and a description, and names its kind in `data-chart`.
+ */
+export function svgFrame(args: {
+  kind: string;
+  width: number;
+  height: number;
+  title: string;
+  description: string;
+  body: string;
+}): string {
+  const id = `chart-${args.kind}`;
+  return [
+    `<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${num(args.width)} ${num(args.height)}"`,
+    ` width="${num(args.width)}" height="${num(args.height)}" role="img" data-chart="${escapeXml(args.kind)}"`,
+    ` aria-labelledby="${id}-title ${id}-desc" font-family="${CHART_FONT}" font-size="14"`,
+    ` style="max-width:100%;height:auto">`,
+    `<title id="${id}-title">${escapeXml(args.title)}</title>`,
+    `<desc id="${id}-desc">${escapeXml(args.description)}</desc>`,
+    `<rect x="0" y="0" width="${num(args.width)}" height="${num(args.height)}" fill="#ffffff"/>`,
+    args.body,
+    "</svg>",
+  ].join("");
+}
