@@ -9,6 +9,7 @@ import { runAnalyze, runCompare, runWhatIf } from "./cli-analyze.js";
 import { runConsole } from "./cli-console.js";
 import { runDemo } from "./cli-demo.js";
 import type { CliIo } from "./cli-io.js";
+import { runServe } from "./cli-serve.js";
 import { runIngest, runMigrate, runPurge } from "./cli-store.js";
 
 type Command = (argv: readonly string[], io: CliIo) => Promise<number>;
@@ -48,6 +49,11 @@ const COMMANDS: Record<string, { run: Command; summary: string; about: string }>
     run: runConsole,
     summary: "console [--facilitator NAME]",
     about: "type as members, run commands, see the bot's answers",
+  },
+  serve: {
+    run: runServe,
+    summary: "serve",
+    about: "run the bot for Slack and/or Teams (configured by environment variables)",
   },
   demo: {
     run: runDemo,

@@ -118,7 +118,7 @@ export const ENV_FIELDS = {
     DEFAULT_RETENTION_DAYS,
   ),
   HOST: text(),
-  PORT: wholeNumber(1, 65535, DEFAULT_PORT),
+  PORT: wholeNumber(0, 65535, DEFAULT_PORT), // 0: any free port (tests),
   LOG_LEVEL: oneOf(LOG_LEVELS),
   PLUMBLINE_REPLICA_ID: matching(/^\S+$/, "must not contain spaces"),
   SLACK_BOT_TOKEN: matching(/^xoxb-\S+$/, "must be a bot token starting with xoxb-"),

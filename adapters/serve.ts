@@ -1,0 +1,150 @@
+/**
+ * @module serve
+ * `plumbline serve`: the composition root of the running bot. Reads the configuration once
+ * (refusing to start, naming every missing or malformed setting), opens the store, builds the
+ * Slack and/or Teams adapters that are configured, one bot over both, one HTTP server for their
+ * routes plus `/healthz`, the scheduler (digests and notes) and the daily retention purge.
+ */
+import { createServer, type Server } from "node:http";
+import pino from "pino";
+import { type Config, loadConfig } from "../src/config/load-config.js";
+import { PlumblineError } from "../src/domain/errors.js";
+import { DAY_MS } from "../src/domain/settings.js";
+import { purge } from "../src/ingest/purge.js";
+import type { Clock } from "../src/ports/clock.js";
+import { systemClock } from "../src/ports/clock.js";
+import type { Logger } from "../src/ports/logger.js";
+import type { Store } from "../src/ports/store.js";
+import { openStore } from "../src/store/open-store.js";
+import { type Bot, createBot } from "./create-bot.js";
+import type { PlatformAdapter } from "./platform-adapter.js";
+import { RoutingPlatform } from "./routing-platform.js";
+
+export interface RunningServer {
+  readonly server: Server;
+  readonly bot: Bot;
+  readonly store: Store;
+  readonly adapters: readonly PlatformAdapter[];
+  /** The port actually bound (useful with PORT=0 in tests). */
+  readonly port: number;
+  close(): Promise<void>;
+}
+
+export interface ServeOptions {
+  readonly env: Readonly<Record<string, string | undefined>>;
+  readonly cwd?: string;
+  readonly clock?: Clock;
+  readonly logger?: Logger;
+  /** Start the scheduler's timer (tests drive `bot.scheduler.tick()` themselves). */
+  readonly schedule?: boolean;
+}
+
+export function pinoLogger(config: Config): Logger {
+  return pino({ level: config.logLevel, base: { replica: config.replicaId } });
+}
+
+function requirePlatform(config: Config): void {
+  if (!config.slack && !config.teams && !config.teamsDevNoAuth) {
+    throw new PlumblineError("CONFIG_INVALID", "no chat platform is configured", {
+      hint: "set SLACK_BOT_TOKEN and SLACK_SIGNING_SECRET (Slack), or MICROSOFT_APP_ID, MICROSOFT_APP_PASSWORD and MICROSOFT_APP_TENANT_ID (Teams)",
+    });
+  }
+}
+
+async function buildAdapters(config: Config, logger: Logger): Promise<PlatformAdapter[]> {
+  const adapters: PlatformAdapter[] = [];
+  if (config.slack) {
+    const { createSlackAdapter } = await import("./slack/slack-adapter.js");
+    adapters.push(
+      await createSlackAdapter({ config: config.slack, logger, facilitators: config.facilitators }),
+    );
+  }
+  if (config.teams || config.teamsDevNoAuth) {
+    const { createTeamsAdapter } = await import("./teams/teams-adapter.js");
+    adapters.push(
+      await createTeamsAdapter({ config: config.teams, devNoAuth: config.teamsDevNoAuth, logger }),
+    );
+  }
+  return adapters;
+}
+
+export async function serve(options: ServeOptions): Promise<RunningServer> {
+  const config = loadConfig(options.env);
+  requirePlatform(config);
+  const logger = options.logger ?? pinoLogger(config);
+  const clock = options.clock ?? systemClock;
+  const store = await openStore(config.databaseUrl, {
+    ...(options.cwd ? { cwd: options.cwd } : {}),
+    ...(config.idKey ? { idKey: config.idKey } : {}),
+    ...(config.idKeyFile ? { idKeyFile: config.idKeyFile } : {}),
+  });
+  const adapters = await buildAdapters(config, logger);
+  const platform = new RoutingPlatform(
+    adapters.map((a) => ({ prefix: a.channelPrefix, platform: a.platform })),
+  );
+  const bot = createBot({
+    store,
+    platform,
+    clock,
+    logger,
+    facilitators: config.facilitators,
+    replicaId: config.replicaId,
+  });
+  const routes = new Map(adapters.flatMap((a) => a.routes.map((r) => [r.path, r] as const)));
+  const server = createServer((request, response) => {
+    const path = (request.url ?? "/").split("?")[0];
+    if (path === "/healthz") {
+      response.writeHead(200, { "content-type": "application/json" });
+      response.end(
+        JSON.stringify({ ok: true, store: store.kind, platforms: adapters.map((a) => a.name) }),
+      );
+      return;
+    }
+    const route = routes.get(path);
+    if (!route) {
+      response.writeHead(404, { "content-type": "text/plain" });
+      response.end("not found\n");
+      return;
+    }
+    route.handle(request, response).catch((error: unknown) => {
+      logger.error(
+        { path, error: error instanceof Error ? error.message : String(error) },
+        "request failed",
+      );
+      if (!response.headersSent) response.writeHead(500);
+      response.end();
+    });
+  });
+  for (const adapter of adapters) await adapter.start(bot);
+  await new Promise<void>((resolve, reject) => {
+    server.once("error", reject);
+    server.listen(config.port, config.host, () => resolve());
+  });
+  const address = server.address();
+  const port = typeof address === "object" && address !== null ? address.port : config.port;
+  if (options.schedule !== false) bot.scheduler.start(60_000);
+  const runPurge = () =>
+    purge(store, { now: clock.now(), retentionDays: config.retentionDays })
+      .then((counts) => logger.info({ ...counts }, "retention purge"))
+      .catch((error: unknown) => logger.error({ error: String(error) }, "retention purge failed"));
+  const purgeTimer = options.schedule === false ? null : setInterval(runPurge, DAY_MS);
+  if (options.schedule !== false) void runPurge();
+  logger.info(
+    { port, platforms: adapters.map((a) => a.name), store: store.kind },
+    "plumbline serving",
+  );
+  return {
+    server,
+    bot,
+    store,
+    adapters,
+    port,
+    async close() {
+      if (purgeTimer) clearInterval(purgeTimer);
+      await bot.scheduler.stop();
+      for (const adapter of adapters) await adapter.stop();
+      await new Promise<void>((resolve) => server.close(() => resolve()));
+      await store.close();
+    },
+  };
+}
