@@ -186,7 +186,9 @@ describe("too little data explains itself with numbers", () => {
     ] as const) {
       await mentions(r.store, { from, to, times: 7, at: T0 + DAY });
     }
-    expect((await r.run("UANA", "check")).message.text).toContain("2 more opted-in members taking part");
+    expect((await r.run("UANA", "check")).message.text).toContain(
+      "2 more opted-in members taking part",
+    );
     await r.run("UBOSS", "set minmembers 3");
     expect((await r.run("UANA", "check")).message.text).toMatch(/Effective voices\s+3\.0 of 3/);
   });
