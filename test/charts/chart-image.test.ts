@@ -1,0 +1,38 @@
+/**
+ * The chat image of the share bars: a PNG (signature and IHDR layout per W3C 2003, "Portable
+ * Network Graphics (PNG) Specification (Second Edition)", §5.2 and §11.2.2) at twice the SVG's
+ * size; null, with a logged warning, when it cannot be made; null without shares.
+ */
+import { describe, expect, it } from "vitest";
+import { sharesChartPng } from "../../adapters/chart-image.js";
+import type { AnalysisReport } from "../../src/domain/report.js";
+import { MemoryLogger } from "../../src/ports/logger.js";
+import { fixtureAnalysis } from "./chart-fixtures.js";
+
+describe("shares chart PNG", () => {
+  const { report } = fixtureAnalysis();
+
+  it("renders a PNG twice the chart's width", () => {
+    const png = sharesChartPng(report, { namesOn: false });
+    expect(png).not.toBeNull();
+    const bytes = png ?? Buffer.alloc(0);
+    expect([...bytes.subarray(0, 8)]).toEqual([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]);
+    expect(bytes.subarray(12, 16).toString("ascii")).toBe("IHDR");
+    expect(bytes.readUInt32BE(16)).toBe(960);
+    expect(bytes.readUInt32BE(20)).toBeGreaterThan(300);
+  });
+
+  it("gives null without shares", () => {
+    const insufficient = { ...report, status: "insufficient" as const, influence: null };
+    expect(sharesChartPng(insufficient, { namesOn: false })).toBeNull();
+  });
+
+  it("logs and gives null when rendering fails", () => {
+    const logger = new MemoryLogger();
+    // A damaged report (no settings) makes the chart code throw; the digest must still post.
+    const damaged = { ...report, settings: undefined } as unknown as AnalysisReport;
+    const broken = sharesChartPng(damaged, { namesOn: false }, { logger });
+    expect(broken).toBeNull();
+    expect(logger.records.map((r) => r.level)).toEqual(["warn"]);
+  });
+});

@@ -1,0 +1,86 @@
+/**
+ * The report page: one self-contained file (no script, no external reference, a CSP that forbids
+ * fetching), every chart, the figures, the how to read and the full cautions (DESIGN.md §7), and
+ * names only under the naming rules (DESIGN.md §6).
+ */
+import { describe, expect, it } from "vitest";
+import { parseDateRange } from "../../src/domain/date-range.js";
+import { CAUTIONS_FULL } from "../../src/report/cautions.js";
+import { analyzeForPage } from "../../src/report/charts/page-analysis.js";
+import { escapeXml } from "../../src/report/charts/svg.js";
+import { reportPage } from "../../src/report/report-page.js";
+import { COUNTED_IDS, FIXTURE_SETTINGS, NAMED_IDS, twoPhaseSnapshot } from "./chart-fixtures.js";
+
+const snapshot = twoPhaseSnapshot();
+const day = new Date(snapshot.lastEventAt ?? 0).toISOString().slice(0, 10);
+const analysis = analyzeForPage(snapshot, FIXTURE_SETTINGS, {
+  ranges: { a: parseDateRange("2026-10-06..2026-11-02"), b: parseDateRange(`2026-11-03..${day}`) },
+});
+
+function page(namesOn: boolean, reader?: string): string {
+  return reportPage({
+    ...analysis,
+    policy: { namesOn, ...(reader ? { reader } : {}) },
+    generatedAt: Date.UTC(2026, 11, 1),
+  });
+}
+
+describe("report page", () => {
+  const html = page(true);
+
+  it("is self-contained: inline style and SVG only, nothing fetched", () => {
+    expect(html).not.toMatch(/<script|<link|<img|<iframe|<object|@import|url\(/i);
+    expect(html).not.toMatch(/\s(src|href)=/i);
+    const urls = html.match(/https?:\/\/[^\s"'<>]+/g) ?? [];
+    expect(new Set(urls)).toEqual(new Set(["http://www.w3.org/2000/svg"]));
+    expect(html).toContain(`http-equiv="Content-Security-Policy" content="default-src 'none';`);
+  });
+
+  it("holds every chart, the figures, the how to read and the cautions", () => {
+    for (const kind of [
+      "shares",
+      "attention-map",
+      "effective-voices-trend",
+      "top-share-trend",
+      "compare",
+      "shares-a",
+      "shares-b",
+    ]) {
+      expect(html).toContain(`data-chart="${kind}"`);
+    }
+    expect(html).toContain("Effective voices");
+    expect(html).toContain("The model in plain words");
+    for (const caution of CAUTIONS_FULL) expect(html).toContain(escapeXml(caution));
+    expect(html).toContain("@media print");
+    expect(html).toContain('name="viewport"');
+  });
+
+  it("never shows a counted member's id; named ids only with names on", () => {
+    const off = page(false);
+    for (const id of COUNTED_IDS) {
+      expect(html).not.toContain(id);
+      expect(off).not.toContain(id);
+    }
+    for (const id of NAMED_IDS) {
+      expect(html).toContain(id);
+      expect(off).not.toContain(id);
+    }
+  });
+
+  it("shows the reader as you, and still nobody else unnamed", () => {
+    const mine = page(false, "zq-counted-2");
+    expect(mine).toContain("you (zq-counted-2)");
+    for (const id of COUNTED_IDS.filter((id) => id !== "zq-counted-2"))
+      expect(mine).not.toContain(id);
+  });
+
+  it("escapes display names", () => {
+    const evil = reportPage({
+      ...analysis,
+      policy: { namesOn: true, displayName: (m) => `<b onload="x">${m}</b>` },
+      generatedAt: 0,
+    });
+    expect(evil).not.toContain("<b onload");
+    expect(evil).toContain("&lt;b onload=&quot;x&quot;&gt;");
+  });
+});
