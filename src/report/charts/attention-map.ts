@@ -149,9 +149,9 @@ export function attentionMapChart(args: {
   if (!report.influence || report.influence.length === 0) return null;
   const label = memberLabeller(report.influence, args.policy);
   const shown = report.influence.slice(0, args.maxMembers ?? 16);
-  const width = 560;
+  const width = 620;
   const height = 560;
-  const centre = { cx: width / 2, cy: height / 2, radius: 175 };
+  const centre = { cx: width / 2, cy: height / 2, radius: 165 };
   const at = circlePositions(shown.length, centre);
   const maxShare = Math.max(...shown.map((e) => e.share));
   const radii = shown.map((e) => nodeRadius(e.share, maxShare));
