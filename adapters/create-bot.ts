@@ -37,6 +37,8 @@ export interface BotOptions {
   /** Platform ids that are facilitators everywhere (PLUMBLINE_FACILITATORS). */
   readonly facilitators: readonly string[];
   readonly replicaId: string;
+  /** Signed report-page links (the served page); absent in the console. */
+  readonly reportLink?: (channel: string, reader: string) => string;
 }
 
 export interface Bot {
@@ -56,6 +58,7 @@ export function createBot(options: BotOptions): Bot {
     store,
     facilitators: options.facilitators,
     displayName: (id) => platform.displayName(id),
+    ...(options.reportLink ? { reportLink: options.reportLink } : {}),
   };
 
   async function analyse(channel: string, until: number) {

@@ -5,6 +5,7 @@
  * Slack and/or Teams adapters that are configured, one bot over both, one HTTP server for their
  * routes plus `/healthz`, the scheduler (digests and notes) and the daily retention purge.
  */
+import { randomBytes } from "node:crypto";
 import { createServer, type Server } from "node:http";
 import pino from "pino";
 import { type Config, loadConfig } from "../src/config/load-config.js";
@@ -18,6 +19,7 @@ import type { Store } from "../src/ports/store.js";
 import { openStore } from "../src/store/open-store.js";
 import { type Bot, createBot } from "./create-bot.js";
 import type { PlatformAdapter } from "./platform-adapter.js";
+import { createReportRoute } from "./report-route.js";
 import { RoutingPlatform } from "./routing-platform.js";
 
 export interface RunningServer {
@@ -82,6 +84,21 @@ export async function serve(options: ServeOptions): Promise<RunningServer> {
   const platform = new RoutingPlatform(
     adapters.map((a) => ({ prefix: a.channelPrefix, platform: a.platform })),
   );
+  if (config.reportSecret === null) {
+    logger.info(
+      {},
+      "PLUMBLINE_REPORT_SECRET is not set: report links last until this process restarts",
+    );
+  }
+  const reports = createReportRoute({
+    store,
+    secret: config.reportSecret ?? randomBytes(32).toString("hex"),
+    clock,
+    facilitators: config.facilitators,
+    displayName: (id) => platform.displayName(id),
+    logger,
+    ...(config.publicUrl ? { publicUrl: config.publicUrl } : {}),
+  });
   const bot = createBot({
     store,
     platform,
@@ -89,6 +106,7 @@ export async function serve(options: ServeOptions): Promise<RunningServer> {
     logger,
     facilitators: config.facilitators,
     replicaId: config.replicaId,
+    reportLink: (channel, reader) => reports.linkFor(channel, reader),
   });
   const routes = new Map(adapters.flatMap((a) => a.routes.map((r) => [r.path, r] as const)));
   const server = createServer((request, response) => {
@@ -100,7 +118,7 @@ export async function serve(options: ServeOptions): Promise<RunningServer> {
       );
       return;
     }
-    const route = routes.get(path);
+    const route = path.startsWith(reports.path) ? reports : routes.get(path);
     if (!route) {
       response.writeHead(404, { "content-type": "text/plain" });
       response.end("not found\n");

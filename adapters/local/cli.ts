@@ -9,6 +9,7 @@ import { runAnalyze, runCompare, runWhatIf } from "./cli-analyze.js";
 import { runConsole } from "./cli-console.js";
 import { runDemo } from "./cli-demo.js";
 import type { CliIo } from "./cli-io.js";
+import { runReport } from "./cli-report.js";
 import { runServe } from "./cli-serve.js";
 import { runIngest, runMigrate, runPurge } from "./cli-store.js";
 
@@ -29,6 +30,11 @@ const COMMANDS: Record<string, { run: Command; summary: string; about: string }>
     run: runWhatIf,
     summary: "whatif <log> --cap SHARE",
     about: "recompute with attention to any one member capped",
+  },
+  report: {
+    run: runReport,
+    summary: "report <log> --out FILE",
+    about: "a self-contained HTML page with charts (add --a RANGE --b RANGE to compare)",
   },
   ingest: {
     run: runIngest,

@@ -27,6 +27,8 @@ export interface CommandDeps {
   readonly facilitators: readonly string[];
   /** Display name of a platform id, when the platform can tell; null when unknown. */
   readonly displayName?: (platformId: string) => Promise<string | null>;
+  /** A signed 24-hour link to the channel's report page for this reader; absent when not served. */
+  readonly reportLink?: (channel: string, reader: string) => string;
 }
 
 export type Visibility = "private" | "channel";

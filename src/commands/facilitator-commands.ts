@@ -151,3 +151,24 @@ export async function facilitator(
   }
   return respondNotes(...texts);
 }
+
+/** `report`: a private, signed link to the report page (facilitators). */
+export async function report(
+  context: CommandContext,
+  deps: CommandDeps,
+  args: readonly string[],
+): Promise<CommandResponse | null> {
+  if (args.length > 0) return null;
+  if (!(await isFacilitator(context, deps))) {
+    return respondNotes(await refusal("open the report page", context, deps));
+  }
+  if (!deps.reportLink) {
+    return respondNotes(
+      "Report pages are served by the running bot (plumbline serve). Here, write one with: plumbline report <log> --out report.html",
+    );
+  }
+  return respondNotes(
+    `Your report page, with charts of this channel's figures: ${deps.reportLink(context.channel, context.member)}`,
+    "The link works for 24 hours and only for you; it shows what you may see under the channel's naming rules. Do not forward it.",
+  );
+}

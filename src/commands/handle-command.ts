@@ -11,7 +11,7 @@ import { explainMessage } from "../report/explain-blocks.js";
 import { helpMessage } from "../report/help-text.js";
 import { check, compare, me, whatIf } from "./analysis-commands.js";
 import type { CommandContext, CommandDeps, CommandResponse } from "./command-types.js";
-import { facilitator, group, set, showSettings } from "./facilitator-commands.js";
+import { facilitator, group, report, set, showSettings } from "./facilitator-commands.js";
 import { join, leave, status } from "./membership-commands.js";
 import { words } from "./parse-input.js";
 import { respond } from "./respond.js";
@@ -43,6 +43,7 @@ const ROUTES: Record<string, Route> = {
   status: none(status),
   compare,
   whatif: whatIf,
+  report,
   settings: none(showSettings),
   set,
   group,

@@ -55,6 +55,18 @@ const ROWS: readonly SettingRow[] = [
     meaning: "This replica's name in post claims (which replica posted a digest or note)",
   },
   {
+    setting: "PLUMBLINE_REPORT_SECRET",
+    default: null,
+    meaning:
+      "Signs the 24-hour report-page links (at least 16 characters; same on every replica). Unset: a random secret per process",
+  },
+  {
+    setting: "PLUMBLINE_PUBLIC_URL",
+    default: null,
+    meaning:
+      "Public https address of the bot, for absolute report-page links; unset: relative links",
+  },
+  {
     setting: "SLACK_BOT_TOKEN",
     default: null,
     meaning: "Slack bot token (xoxb-…); with SLACK_SIGNING_SECRET turns Slack on",

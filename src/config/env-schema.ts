@@ -121,6 +121,10 @@ export const ENV_FIELDS = {
   PORT: wholeNumber(0, 65535, DEFAULT_PORT), // 0: any free port (tests),
   LOG_LEVEL: oneOf(LOG_LEVELS),
   PLUMBLINE_REPLICA_ID: matching(/^\S+$/, "must not contain spaces"),
+  PLUMBLINE_REPORT_SECRET: text().refine((v) => v === undefined || v.length >= 16, {
+    error: "must be at least 16 characters; generate one with `openssl rand -hex 32`",
+  }),
+  PLUMBLINE_PUBLIC_URL: httpUrl,
   SLACK_BOT_TOKEN: matching(/^xoxb-\S+$/, "must be a bot token starting with xoxb-"),
   SLACK_SIGNING_SECRET: text(),
   SLACK_APP_TOKEN: matching(/^xapp-\S+$/, "must be an app-level token starting with xapp-"),

@@ -47,6 +47,10 @@ export interface Config {
   readonly logLevel: LogLevel;
   /** This process's name in post claims. */
   readonly replicaId: string;
+  /** Signs report-page links; null: a random secret per process (links end with a restart). */
+  readonly reportSecret: string | null;
+  /** Public base URL of the bot, for absolute report links; null: links are relative. */
+  readonly publicUrl: string | null;
   /** Null unless SLACK_BOT_TOKEN and SLACK_SIGNING_SECRET are both given. */
   readonly slack: SlackConfig | null;
   /** Null unless the Teams app credentials are complete for MICROSOFT_APP_TYPE. */
@@ -110,6 +114,8 @@ export function loadConfig(
     logLevel: e.LOG_LEVEL ?? "info",
     replicaId:
       e.PLUMBLINE_REPLICA_ID ?? `${options.hostname ?? hostname()}-${options.pid ?? process.pid}`,
+    reportSecret: e.PLUMBLINE_REPORT_SECRET ?? null,
+    publicUrl: e.PLUMBLINE_PUBLIC_URL ?? null,
     slack: slackSection(e),
     teams: teamsSection(e),
     teamsDevNoAuth: e.PLUMBLINE_TEAMS_DEV_NO_AUTH === "1",

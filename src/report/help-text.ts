@@ -63,6 +63,11 @@ export const HELP_ENTRIES: readonly HelpEntry[] = [
       "what if no one gave any one member more than that share of their attention, e.g. whatif cap 25%",
     facilitatorsOnly: false,
   },
+  {
+    usage: "report",
+    summary: "a private link to the report page with charts, valid for 24 hours",
+    facilitatorsOnly: true,
+  },
   { usage: "settings", summary: "show this channel's settings", facilitatorsOnly: false },
   {
     usage: "set <key> <value>",

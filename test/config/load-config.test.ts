@@ -35,6 +35,8 @@ describe("loadConfig", () => {
       port: 3000,
       logLevel: "info",
       replicaId: "box-42",
+      reportSecret: null,
+      publicUrl: null,
       slack: null,
       teams: null,
       teamsDevNoAuth: false,

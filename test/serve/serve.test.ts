@@ -64,4 +64,39 @@ describe("plumbline serve", () => {
     // Running without Teams credentials is announced loudly.
     expect(logger.records.some((r) => r.level === "warn")).toBe(true);
   });
+
+  it("serves signed report pages: a facilitator's link opens, a forged one gets 403", async () => {
+    dir = mkdtempSync(join(tmpdir(), "plumbline-serve-"));
+    running = await serve({
+      env: {
+        DATABASE_URL: `sqlite:${join(dir, "bot.db")}`,
+        HOST: "127.0.0.1",
+        PORT: "0",
+        PLUMBLINE_TEAMS_DEV_NO_AUTH: "1",
+        PLUMBLINE_FACILITATORS: "ana",
+        PLUMBLINE_REPORT_SECRET: "a-report-secret-of-some-length",
+      },
+      logger: new MemoryLogger(),
+      schedule: false,
+    });
+    const base = `http://127.0.0.1:${running.port}`;
+    const ask = (member: string) =>
+      running?.bot.onCommand({
+        channel: "teams:c1",
+        member,
+        text: "report",
+        isPlatformAdmin: false,
+      });
+    const refused = await ask("bo");
+    expect(refused?.message.text).toMatch(/Only this channel's facilitators/);
+    const answer = await ask("ana");
+    expect(answer?.visibility).toBe("private");
+    const link = /\/reports\/\S+/.exec(answer?.message.text ?? "")?.[0] ?? "";
+    expect(link).not.toBe("");
+    const page = await fetch(`${base}${link}`);
+    expect(page.status).toBe(200);
+    expect(page.headers.get("content-type")).toContain("text/html");
+    expect((await fetch(`${base}/reports/not-a-token`)).status).toBe(403);
+    expect((await fetch(`${base}${link}x`)).status).toBe(403);
+  });
 });
