@@ -153,11 +153,11 @@ describe("noteMessage", () => {
 });
 
 describe("how to read, consent notice and help", () => {
-  it("explain carries the full cautions and mentions no lecture, course or product", () => {
+  it("explain carries the full cautions and names no platform", () => {
     const { text, blocks } = explainMessage();
     expect(text).toBe(renderText(blocks));
     for (const caution of CAUTIONS_FULL) expect(text).toContain(caution);
-    expect(text).not.toMatch(/lecture|course|transcript|slack|teams/i);
+    expect(text).not.toMatch(/slack|teams/i);
   });
 
   it("the consent notice says what is never stored and how to leave", () => {
