@@ -316,7 +316,7 @@ function fullWithSplit(p: Prepared, full: Measured): BenchRow[] {
   const pick = (key: keyof Split) => median(splits.map((s) => s[key]));
   const steps: [string, number, string][] = [
     ["signals (snapshot → signals)", pick("signals"), ""],
-    ["CSR counts (signals → C via graph)", pick("csr"), ""],
+    ["CSR counts (signals → C)", pick("csr"), ""],
     ["structure (closed groups + Louvain)", pick("structure"), ""],
     ["point estimate", pick("point"), ""],
     ["draws: Dirichlet sampling", pick("sampling"), `${SETTINGS.samples} draws`],
