@@ -4,7 +4,9 @@
  * "Schema Explorer", version 1.5): headings and notes as wrapped TextBlocks, figures as a FactSet,
  * bars as monospace TextBlocks drawn with plain characters, cautions and footers small and subtle.
  * The card carries the plain text as `fallbackText`, so a client that cannot show it still reads
- * the message. Our own layout: no colours, images or icons.
+ * the message. Our own layout: no colours or icons; the one image is the digest's chart, placed
+ * after the bars as an `Image` with a `data:` URL and its alternative text (or, when it could not
+ * be made, a line saying it is missing).
  */
 import type { OutgoingMessage } from "../../src/ports/chat-platform.js";
 import type { BarRow, Block } from "../../src/report/blocks.js";
@@ -88,23 +90,60 @@ function element(block: Block): CardElement[] {
   }
 }
 
-/** The Adaptive Card of a neutral message. */
-export function adaptiveCard(message: OutgoingMessage): AdaptiveCard {
+/** Said in place of the chart image when it could not be made. */
+export const CHART_MISSING_TEXT =
+  "Chart image missing (could not be rendered); the text bars above show the same figures.";
+
+/** The message's chart as rendered by the adapter: PNG bytes, or null when rendering failed. */
+export interface CardChart {
+  readonly png: Buffer | null;
+  readonly alt: string;
+}
+
+function chartElement(chart: CardChart): CardElement {
+  if (chart.png === null) return textBlock(CHART_MISSING_TEXT, { size: "Small", isSubtle: true });
+  return {
+    type: "Image",
+    url: `data:image/png;base64,${chart.png.toString("base64")}`,
+    altText: chart.alt,
+    size: "stretch",
+    spacing: "Small",
+  };
+}
+
+/** The Adaptive Card of a neutral message, with its chart after the bars when one is given. */
+export function adaptiveCard(message: OutgoingMessage, chart?: CardChart): AdaptiveCard {
+  const body: CardElement[] = [];
+  let placed = chart === undefined;
+  for (const block of message.blocks) {
+    if (!placed && (block.kind === "cautions" || block.kind === "footer") && chart) {
+      body.push(chartElement(chart));
+      placed = true;
+    }
+    body.push(...element(block));
+    if (!placed && block.kind === "bars" && chart) {
+      body.push(chartElement(chart));
+      placed = true;
+    }
+  }
+  if (!placed && chart) body.push(chartElement(chart));
   return {
     type: "AdaptiveCard",
     $schema: "http://adaptivecards.io/schemas/adaptive-card.json",
     version: ADAPTIVE_CARD_VERSION,
     fallbackText: message.text,
-    body: message.blocks.flatMap(element),
+    body,
   };
 }
 
 /** The activity that posts a neutral message as one card (text fallback on the card). */
-export function cardActivity(message: OutgoingMessage): CardActivity {
+export function cardActivity(message: OutgoingMessage, chart?: CardChart): CardActivity {
   const firstLine = message.text.split("\n").find((l) => l.trim() !== "") ?? "plumbline";
   return {
     type: "message",
     summary: firstLine.slice(0, 120),
-    attachments: [{ contentType: ADAPTIVE_CARD_CONTENT_TYPE, content: adaptiveCard(message) }],
+    attachments: [
+      { contentType: ADAPTIVE_CARD_CONTENT_TYPE, content: adaptiveCard(message, chart) },
+    ],
   };
 }

@@ -18,6 +18,7 @@ import {
 import type { TeamsConfig } from "../../src/config/load-config.js";
 import { PlumblineError } from "../../src/domain/errors.js";
 import type { Logger } from "../../src/ports/logger.js";
+import type { ChartRenderer } from "../chart-image.js";
 import type { Bot } from "../create-bot.js";
 import type { PlatformAdapter } from "../platform-adapter.js";
 import { TEAMS_CHANNEL_PREFIX } from "./activity-fields.js";
@@ -38,6 +39,8 @@ export interface TeamsAdapterOptions {
   readonly sendQueue?: Partial<SendQueueOptions>;
   /** Epoch ms for activities without a timestamp; default Date.now. */
   readonly now?: () => number;
+  /** SVG → PNG for the digest's card image; default the card-sized indexed PNG (tests inject). */
+  readonly renderChart?: ChartRenderer;
 }
 
 function credentialFactory(
@@ -101,6 +104,7 @@ export async function createTeamsAdapter(options: TeamsAdapterOptions): Promise<
     queue,
     directory,
     logger,
+    ...(options.renderChart ? { renderChart: options.renderChart } : {}),
   });
   const handler = new PlumblineTeamsHandler({ platform, directory, logger, now });
   return {

@@ -5,7 +5,9 @@
  * top-level post), as one Adaptive Card; private answers go to the member's personal conversation,
  * opened with `createConversationAsync` when this process has none (the Bot Framework's way to
  * start a 1:1 from a team: learn.microsoft.com/microsoftteams/platform/bots/how-to/conversations/
- * send-proactive-messages). Every send passes the per-conversation `SendQueue`.
+ * send-proactive-messages). Every send passes the per-conversation `SendQueue`. A message's
+ * chart is rendered here (the injected renderer, by default the card-sized indexed PNG) and goes
+ * into the card as an image; when rendering fails the card says so and posts anyway.
  */
 import {
   type CloudAdapter,
@@ -17,8 +19,10 @@ import {
 import type { ChatPlatform, OutgoingMessage } from "../../src/ports/chat-platform.js";
 import type { Logger } from "../../src/ports/logger.js";
 import type { Store } from "../../src/ports/store.js";
+import type { ChartRenderer } from "../chart-image.js";
 import { platformConversationId } from "./activity-fields.js";
-import { cardActivity } from "./adaptive-card.js";
+import { type CardChart, cardActivity } from "./adaptive-card.js";
+import { cardChartRenderer } from "./card-chart.js";
 import {
   type ConversationState,
   readConversationState,
@@ -55,14 +59,19 @@ export interface TeamsPlatformOptions {
   readonly queue: SendQueue;
   readonly directory: MemberDirectory;
   readonly logger: Logger;
+  /** SVG → PNG for card images; default `cardChartRenderer`. */
+  readonly renderChart?: ChartRenderer;
 }
 
 export class TeamsPlatform implements ChatPlatform {
   readonly name = "teams";
   private store: Store | null = null;
   private readonly personal = new Map<string, Partial<ConversationReference>>();
+  private readonly renderChart: ChartRenderer;
 
-  constructor(private readonly options: TeamsPlatformOptions) {}
+  constructor(private readonly options: TeamsPlatformOptions) {
+    this.renderChart = options.renderChart ?? cardChartRenderer({ logger: options.logger });
+  }
 
   /** Gives the platform the bot's store (conversation references live there). */
   attach(store: Store): void {
@@ -93,9 +102,27 @@ export class TeamsPlatform implements ChatPlatform {
   async sendInTurn(context: TurnContext, message: OutgoingMessage | string): Promise<string> {
     const key = context.activity.conversation?.id ?? "";
     const activity =
-      typeof message === "string" ? { type: "message", text: message } : cardActivity(message);
+      typeof message === "string"
+        ? { type: "message", text: message }
+        : cardActivity(message, this.cardChart(message));
     const response = await this.options.queue.send(key, () => context.sendActivity(activity));
     return response?.id ?? "";
+  }
+
+  /** The message's chart, rendered once before the send (so a retried send reuses it). */
+  private cardChart(message: OutgoingMessage): CardChart | undefined {
+    if (!message.chart) return undefined;
+    let png: Buffer | null;
+    try {
+      png = this.renderChart(message.chart.svg);
+    } catch (error) {
+      this.options.logger.warn(
+        { err: error instanceof Error ? error.name : "unknown" },
+        "chart image failed; posting text bars only",
+      );
+      png = null;
+    }
+    return { png, alt: message.chart.alt };
   }
 
   async postToChannel(channel: string, message: OutgoingMessage): Promise<{ messageId: string }> {

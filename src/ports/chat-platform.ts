@@ -6,10 +6,22 @@
  */
 import type { Block } from "../report/blocks.js";
 
+/** A chart to show with a message: SVG markup (core output) and its alternative text. */
+export interface MessageChart {
+  readonly svg: string;
+  readonly alt: string;
+}
+
 /** A message in neutral form: blocks plus a plain-text fallback of the same content. */
 export interface OutgoingMessage {
   readonly blocks: readonly Block[];
   readonly text: string;
+  /**
+   * The share bars as a chart image, when the message has them. Adapters rasterise it; when
+   * that or the upload fails they say so and post the text alone (the bars blocks carry the
+   * same figures).
+   */
+  readonly chart?: MessageChart;
 }
 
 export interface ChatPlatform {

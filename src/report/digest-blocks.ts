@@ -9,6 +9,7 @@ import type { AnalysisReport } from "../domain/report.js";
 import type { OutgoingMessage } from "../ports/chat-platform.js";
 import type { BarRow, Block, FigureRow } from "./blocks.js";
 import { CAUTIONS_LINE } from "./cautions.js";
+import { shareBarsChart } from "./charts/share-bars-chart.js";
 import { decimal1, isoDay, percent, percentRange, voicesOf } from "./format.js";
 import { memberLabeller, type NamingPolicy } from "./naming.js";
 import { plainReading } from "./reading.js";
@@ -16,6 +17,9 @@ import { renderText } from "./render-text.js";
 
 /** The pointer every posted figure ends with. */
 export const EXPLAIN_POINTER = "How to read these figures: /influence explain";
+
+/** Bars shown in the text and in the chart image alike. */
+const DIGEST_MAX_BARS = 15;
 
 export interface DigestArgs {
   readonly report: AnalysisReport;
@@ -96,7 +100,7 @@ export function changeRow(report: AnalysisReport, previous: AnalysisReport | nul
 export function shareBars(
   report: AnalysisReport,
   policy: NamingPolicy,
-  maxBars = 15,
+  maxBars = DIGEST_MAX_BARS,
 ): Block | null {
   if (!report.influence || report.influence.length === 0) return null;
   const label = memberLabeller(report.influence, policy);
@@ -190,8 +194,22 @@ export function digestBlocks(args: DigestArgs): Block[] {
   return blocks;
 }
 
-/** The balance digest, ready to post: blocks plus their plain-text rendering. */
+/** Alternative text of the digest's chart image. */
+export function chartAltText(report: AnalysisReport): string {
+  const interval = Math.round(report.settings.interval * 100);
+  return `Influence shares, largest first, with ${interval}% intervals${report.line ? ` and the line at ${percent(report.line.threshold)}` : ""}`;
+}
+
+/**
+ * The balance digest, ready to post: blocks plus their plain-text rendering, and the share bars as
+ * a chart (the same SVG as the report page, labelled under the same naming policy as the text, so
+ * the image names nobody the text does not) when the report has figures.
+ */
 export function digestMessage(args: DigestArgs): OutgoingMessage {
   const blocks = digestBlocks(args);
-  return { blocks, text: renderText(blocks) };
+  const text = renderText(blocks);
+  if (args.report.status === "insufficient") return { blocks, text };
+  const svg = shareBarsChart(args.report, args.policy, { maxBars: DIGEST_MAX_BARS });
+  if (svg === null) return { blocks, text };
+  return { blocks, text, chart: { svg, alt: chartAltText(args.report) } };
 }

@@ -10,6 +10,7 @@ import { createServer, type Server } from "node:http";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import nock from "nock";
+import type { ChartRenderer } from "../../adapters/chart-image.js";
 import { type Bot, createBot } from "../../adapters/create-bot.js";
 import type { PlatformAdapter } from "../../adapters/platform-adapter.js";
 import { createTeamsAdapter } from "../../adapters/teams/teams-adapter.js";
@@ -60,7 +61,7 @@ export interface Harness {
 }
 
 export async function startHarness(
-  options: { config?: TeamsConfig | null; devNoAuth?: boolean } = {},
+  options: { config?: TeamsConfig | null; devNoAuth?: boolean; renderChart?: ChartRenderer } = {},
 ): Promise<Harness> {
   const dir = await mkdtemp(join(tmpdir(), "plumbline-teams-"));
   const dbPath = join(dir, "plumbline.db");
@@ -81,6 +82,7 @@ export async function startHarness(
       },
       random: () => 0.5,
     },
+    ...(options.renderChart ? { renderChart: options.renderChart } : {}),
   });
   const bot = createBot({
     store,
