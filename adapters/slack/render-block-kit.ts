@@ -3,7 +3,8 @@
  * Renders the neutral blocks as Slack Block Kit in plumbline's own plain layout: a heading and
  * notes as sections, figures as section fields (two columns, at most 10 per section), bars as
  * monospace lines from the text renderer inside a code block, cautions and footers as context.
- * No colours, emoji or images. Slack's limits are kept: 3,000 characters per section text, 2,000
+ * No colours or emoji; a line about the chart image (it lives in the thread) can follow the bars.
+ * Slack's limits are kept: 3,000 characters per section text, 2,000
  * per field, 50 blocks per message (docs.slack.dev Block Kit reference, "section" and "messages").
  */
 import type { Block } from "../../src/report/blocks.js";
@@ -100,9 +101,39 @@ function renderOne(block: Block): SlackBlock[] {
   }
 }
 
+export interface RenderOptions {
+  /** A context line placed after the bars (or before the cautions when there are none). */
+  readonly chartLine?: string;
+}
+
+function withChartLine(blocks: readonly Block[], line: string): SlackBlock[] {
+  const note: SlackBlock = { type: "context", elements: [plain(line)] };
+  const out: SlackBlock[] = [];
+  let placed = false;
+  for (const block of blocks) {
+    if (!placed && (block.kind === "cautions" || block.kind === "footer")) {
+      out.push(note);
+      placed = true;
+    }
+    out.push(...renderOne(block));
+    if (!placed && block.kind === "bars") {
+      out.push(note);
+      placed = true;
+    }
+  }
+  if (!placed) out.push(note);
+  return out;
+}
+
 /** Block Kit for a neutral message; the message's plain text goes alongside as `text`. */
-export function renderBlockKit(blocks: readonly Block[]): SlackBlock[] {
-  const out = blocks.flatMap(renderOne);
+export function renderBlockKit(
+  blocks: readonly Block[],
+  options: RenderOptions = {},
+): SlackBlock[] {
+  const out =
+    options.chartLine === undefined
+      ? blocks.flatMap(renderOne)
+      : withChartLine(blocks, options.chartLine);
   if (out.length <= MAX_BLOCKS) return out;
   return [
     ...out.slice(0, MAX_BLOCKS - 1),

@@ -13,6 +13,7 @@ import type { SlackConfig } from "../../src/config/load-config.js";
 import { PlumblineError } from "../../src/domain/errors.js";
 import { type Clock, systemClock } from "../../src/ports/clock.js";
 import type { Logger } from "../../src/ports/logger.js";
+import type { ChartRenderer } from "../chart-image.js";
 import type { Bot } from "../create-bot.js";
 import type { PlatformAdapter } from "../platform-adapter.js";
 import { boltLogger } from "./bolt-logger.js";
@@ -42,6 +43,8 @@ export interface SlackAdapterOptions {
   readonly identity?: SlackIdentity;
   /** Least time between two posts in one channel; default 1000 ms. */
   readonly postIntervalMs?: number;
+  /** SVG → PNG for the digest's chart; default `svgToPng` (tests inject a failing one). */
+  readonly renderChart?: ChartRenderer;
 }
 
 const realSleep = (ms: number) => new Promise<void>((resolve) => setTimeout(resolve, ms));
@@ -136,8 +139,19 @@ export async function createSlackAdapter(options: SlackAdapterOptions): Promise<
       client.chat.postMessage(args as unknown as webApi.ChatPostMessageArguments),
     postEphemeral: (args: Record<string, unknown>) =>
       client.chat.postEphemeral(args as unknown as webApi.ChatPostEphemeralArguments),
+    update: (args: Record<string, unknown>) =>
+      client.chat.update(args as unknown as webApi.ChatUpdateArguments),
   };
-  const platform = new SlackPlatform({ chat, queue, directory });
+  const upload = (args: Record<string, unknown>) =>
+    client.filesUploadV2(args as unknown as webApi.FilesUploadV2Arguments);
+  const platform = new SlackPlatform({
+    chat,
+    upload,
+    queue,
+    directory,
+    logger,
+    ...(options.renderChart ? { renderChart: options.renderChart } : {}),
+  });
 
   return {
     name: "slack",

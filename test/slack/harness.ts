@@ -8,6 +8,7 @@ import { createServer, request as httpRequest, type Server } from "node:http";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import nock from "nock";
+import type { ChartRenderer } from "../../adapters/chart-image.js";
 import { type Bot, createBot } from "../../adapters/create-bot.js";
 import type { PlatformAdapter } from "../../adapters/platform-adapter.js";
 import { slackSignature } from "../../adapters/slack/request-guard.js";
@@ -51,7 +52,9 @@ export interface Harness {
 }
 
 /** Starts the adapter behind a loopback server; `auth.test` is answered by nock. */
-export async function startHarness(): Promise<Harness> {
+export async function startHarness(
+  options: { renderChart?: ChartRenderer } = {},
+): Promise<Harness> {
   nock.disableNetConnect();
   nock.enableNetConnect("127.0.0.1");
   nock(API_HOST)
@@ -77,6 +80,7 @@ export async function startHarness(): Promise<Harness> {
       sleeps.push(ms);
       clock.advance(ms);
     },
+    ...(options.renderChart ? { renderChart: options.renderChart } : {}),
   });
   const bot = createBot({
     store,
