@@ -6,8 +6,9 @@
  * images not counted; older guidance said about 28 KB for the whole message, so the card is kept
  * under 28 KB image included. resvg's anti-aliased RGBA PNG of a 15-member chart is about 45 KB even
  * at the chart's own 480 px, so the pixels are re-encoded as an indexed-colour PNG (the chart has
- * about a hundred distinct colours): about 9 KB, 12 KB as base64. Larger than `maxBytes`, or with
- * more than 256 colours, the image is left out and the card says the chart is missing.
+ * about a hundred distinct colours): about 8 KB for 15 members, the whole card about 15 KB.
+ * Larger than `maxBytes`, or with more than 256 colours, the image is left out and the card says
+ * the chart is missing.
  */
 
 import type { Logger } from "../../src/ports/logger.js";
