@@ -12,14 +12,7 @@ import { type BenchRow, benchEngine } from "./engine-bench.js";
 import { benchIngest } from "./ingest-bench.js";
 import { benchSlack } from "./slack-bench.js";
 
-interface TableRow {
-  readonly name: string;
-  readonly value: number;
-  readonly unit: string;
-  readonly target?: string;
-  readonly met?: boolean;
-  readonly note?: string;
-}
+type TableRow = BenchRow;
 
 /** Narrows one row handed over by another bench module (`{ name, value, unit, note? }`). */
 function asRow(value: unknown): TableRow | null {
