@@ -6,7 +6,7 @@
  * routes plus `/healthz`, the scheduler (digests and notes) and the daily retention purge.
  */
 import { randomBytes } from "node:crypto";
-import { createServer, type Server } from "node:http";
+import type { Server } from "node:http";
 import pino from "pino";
 import { type Config, loadConfig } from "../src/config/load-config.js";
 import { PlumblineError } from "../src/domain/errors.js";
@@ -20,6 +20,7 @@ import { openStore } from "../src/store/open-store.js";
 import { type Bot, createBot } from "./create-bot.js";
 import type { PlatformAdapter } from "./platform-adapter.js";
 import { createReportRoute } from "./report-route.js";
+import { createRouteServer, listen } from "./route-server.js";
 import { RoutingPlatform } from "./routing-platform.js";
 
 export interface RunningServer {
@@ -108,38 +109,13 @@ export async function serve(options: ServeOptions): Promise<RunningServer> {
     replicaId: config.replicaId,
     reportLink: (channel, reader) => reports.linkFor(channel, reader),
   });
-  const routes = new Map(adapters.flatMap((a) => a.routes.map((r) => [r.path, r] as const)));
-  const server = createServer((request, response) => {
-    const path = (request.url ?? "/").split("?")[0];
-    if (path === "/healthz") {
-      response.writeHead(200, { "content-type": "application/json" });
-      response.end(
-        JSON.stringify({ ok: true, store: store.kind, platforms: adapters.map((a) => a.name) }),
-      );
-      return;
-    }
-    const route = path.startsWith(reports.path) ? reports : routes.get(path);
-    if (!route) {
-      response.writeHead(404, { "content-type": "text/plain" });
-      response.end("not found\n");
-      return;
-    }
-    route.handle(request, response).catch((error: unknown) => {
-      logger.error(
-        { path, error: error instanceof Error ? error.message : String(error) },
-        "request failed",
-      );
-      if (!response.headersSent) response.writeHead(500);
-      response.end();
-    });
+  const server = createRouteServer({
+    routes: [...adapters.flatMap((a) => a.routes), reports],
+    health: () => ({ ok: true, store: store.kind, platforms: adapters.map((a) => a.name) }),
+    logger,
   });
   for (const adapter of adapters) await adapter.start(bot);
-  await new Promise<void>((resolve, reject) => {
-    server.once("error", reject);
-    server.listen(config.port, config.host, () => resolve());
-  });
-  const address = server.address();
-  const port = typeof address === "object" && address !== null ? address.port : config.port;
+  const port = await listen(server, config.port, config.host);
   if (options.schedule !== false) bot.scheduler.start(60_000);
   const runPurge = () =>
     purge(store, { now: clock.now(), retentionDays: config.retentionDays })

@@ -4,13 +4,14 @@
  * The Web API is a nock'd stand-in host (SLACK_API_URL), so nothing leaves the machine.
  */
 import { mkdtempSync, readFileSync } from "node:fs";
-import { createServer, request as httpRequest, type Server } from "node:http";
+import { request as httpRequest, type Server } from "node:http";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import nock from "nock";
 import type { ChartRenderer } from "../../adapters/chart-image.js";
 import { type Bot, createBot } from "../../adapters/create-bot.js";
 import type { PlatformAdapter } from "../../adapters/platform-adapter.js";
+import { createRouteServer, listen } from "../../adapters/route-server.js";
 import { slackSignature } from "../../adapters/slack/request-guard.js";
 import { createSlackAdapter } from "../../adapters/slack/slack-adapter.js";
 import type { ConsentLevel } from "../../src/domain/events.js";
@@ -91,22 +92,8 @@ export async function startHarness(
     replicaId: "test",
   });
   await adapter.start(bot);
-  const routes = new Map(adapter.routes.map((r) => [r.path, r]));
-  const server = createServer((req, res) => {
-    const route = routes.get((req.url ?? "/").split("?")[0]);
-    if (!route) {
-      res.writeHead(404);
-      res.end();
-      return;
-    }
-    route.handle(req, res).catch(() => {
-      if (!res.headersSent) res.writeHead(500);
-      res.end();
-    });
-  });
-  await new Promise<void>((resolve) => server.listen(0, "127.0.0.1", resolve));
-  const address = server.address();
-  const port = typeof address === "object" && address !== null ? address.port : 0;
+  const server = createRouteServer({ routes: adapter.routes });
+  const port = await listen(server, 0, "127.0.0.1");
   return {
     server,
     port,

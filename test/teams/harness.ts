@@ -6,13 +6,14 @@
  */
 import { readFileSync } from "node:fs";
 import { mkdtemp, rm } from "node:fs/promises";
-import { createServer, type Server } from "node:http";
+import type { Server } from "node:http";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import nock from "nock";
 import type { ChartRenderer } from "../../adapters/chart-image.js";
 import { type Bot, createBot } from "../../adapters/create-bot.js";
 import type { PlatformAdapter } from "../../adapters/platform-adapter.js";
+import { createRouteServer, listen } from "../../adapters/route-server.js";
 import { createTeamsAdapter } from "../../adapters/teams/teams-adapter.js";
 import type { TeamsConfig } from "../../src/config/load-config.js";
 import { ManualClock } from "../../src/ports/clock.js";
@@ -94,20 +95,8 @@ export async function startHarness(
   });
   await adapter.start(bot);
   const route = adapter.routes[0];
-  const server: Server = createServer((request, response) => {
-    if (request.url !== route.path) {
-      response.writeHead(404);
-      response.end();
-      return;
-    }
-    route.handle(request, response).catch(() => {
-      if (!response.headersSent) response.writeHead(500);
-      response.end();
-    });
-  });
-  await new Promise<void>((resolve) => server.listen(0, "127.0.0.1", resolve));
-  const address = server.address();
-  const port = typeof address === "object" && address !== null ? address.port : 0;
+  const server: Server = createRouteServer({ routes: adapter.routes });
+  const port = await listen(server, 0, "127.0.0.1");
   const url = `http://127.0.0.1:${port}${route.path}`;
   return {
     url,
