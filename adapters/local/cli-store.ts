@@ -10,7 +10,7 @@
 import { resolve } from "node:path";
 import { parseIsoTime } from "../../src/attention/parse-iso-time.js";
 import { readEventLogFile } from "../../src/attention/read-event-log.js";
-import { isPlumblineError, PlumblineError } from "../../src/domain/errors.js";
+import { PlumblineError } from "../../src/domain/errors.js";
 import { logDeliveryKey } from "../../src/ingest/delivery-key.js";
 import { ingestBatch } from "../../src/ingest/ingest.js";
 import { DEFAULT_DEDUPE_DAYS, DEFAULT_RETENTION_DAYS, purge } from "../../src/ingest/purge.js";
@@ -29,116 +29,92 @@ const PURGE_USAGE =
   "plumbline purge [--db URL] [--retention-days 91] [--dedupe-days 7] [--now TIME]";
 
 /** `plumbline ingest <log>`: imports the log into the store; prints a one-line summary. */
-export function runIngest(argv: readonly string[], io: CliIo): Promise<number> {
-  return guarded("ingest", io, async () => {
-    const parsed = parseCommandArgs(
-      argv,
-      { db: { type: "string" }, "skip-bad": { type: "boolean" } },
-      INGEST_USAGE,
-    );
-    const [log, ...extra] = parsed.positionals;
-    if (log === undefined) {
-      throw new PlumblineError("ARG_MISSING", "no log given", { hint: `usage: ${INGEST_USAGE}` });
-    }
-    if (extra.length > 0) {
-      throw new PlumblineError("ARG_UNKNOWN", `unexpected argument "${extra[0]}"`, {
-        hint: `usage: ${INGEST_USAGE}`,
-      });
-    }
-    const { events, skipped } = await readEventLogFile(resolve(io.cwd, log), {
-      skipBad: parsed.values["skip-bad"] === true,
+export async function runIngest(argv: readonly string[], io: CliIo): Promise<number> {
+  const parsed = parseCommandArgs(
+    argv,
+    { db: { type: "string" }, "skip-bad": { type: "boolean" } },
+    INGEST_USAGE,
+  );
+  const [log, ...extra] = parsed.positionals;
+  if (log === undefined) {
+    throw new PlumblineError("ARG_MISSING", "no log given", { hint: `usage: ${INGEST_USAGE}` });
+  }
+  if (extra.length > 0) {
+    throw new PlumblineError("ARG_UNKNOWN", `unexpected argument "${extra[0]}"`, {
+      hint: `usage: ${INGEST_USAGE}`,
     });
-    const url = databaseUrl(parsed.values.db, io);
-    const store = await openStore(url, storeOptions(io));
-    try {
-      const deliveries = events.map((event) => ({ event, deliveryKey: logDeliveryKey(event) }));
-      const totals = await ingestBatch(store, deliveries, { batchSize: 500 });
-      const bad = skipped.length > 0 ? `, ${skipped.length} bad lines skipped` : "";
-      io.stdout(
-        `ingested ${log} into ${redact(url)}: ${events.length} events, ${totals.applied} applied, ${totals.skipped} already seen${bad}\n`,
-      );
-    } finally {
-      await store.close();
-    }
-    return 0;
+  }
+  const { events, skipped } = await readEventLogFile(resolve(io.cwd, log), {
+    skipBad: parsed.values["skip-bad"] === true,
   });
+  const url = databaseUrl(parsed.values.db, io);
+  const store = await openStore(url, storeOptions(io));
+  try {
+    const deliveries = events.map((event) => ({ event, deliveryKey: logDeliveryKey(event) }));
+    const totals = await ingestBatch(store, deliveries, { batchSize: 500 });
+    const bad = skipped.length > 0 ? `, ${skipped.length} bad lines skipped` : "";
+    io.stdout(
+      `ingested ${log} into ${redact(url)}: ${events.length} events, ${totals.applied} applied, ${totals.skipped} already seen${bad}\n`,
+    );
+  } finally {
+    await store.close();
+  }
+  return 0;
 }
 
 /** `plumbline migrate`: applies pending schema migrations and prints the version. */
-export function runMigrate(argv: readonly string[], io: CliIo): Promise<number> {
-  return guarded("migrate", io, async () => {
-    const parsed = parseCommandArgs(argv, { db: { type: "string" } }, MIGRATE_USAGE);
-    noPositionals(parsed.positionals, MIGRATE_USAGE);
-    const url = databaseUrl(parsed.values.db, io);
-    let applied = 0;
-    const store = await openStore(url, {
-      ...storeOptions(io),
-      onMigrated: (info) => {
-        applied = info.applied;
-      },
-    });
-    const version = store.schemaVersion;
-    await store.close();
-    io.stdout(
-      store.kind === "memory"
-        ? "the memory store keeps no schema; nothing to migrate\n"
-        : `${redact(url)}: schema at version ${version} (${applied} migration${applied === 1 ? "" : "s"} applied)\n`,
-    );
-    return 0;
+export async function runMigrate(argv: readonly string[], io: CliIo): Promise<number> {
+  const parsed = parseCommandArgs(argv, { db: { type: "string" } }, MIGRATE_USAGE);
+  noPositionals(parsed.positionals, MIGRATE_USAGE);
+  const url = databaseUrl(parsed.values.db, io);
+  let applied = 0;
+  const store = await openStore(url, {
+    ...storeOptions(io),
+    onMigrated: (info) => {
+      applied = info.applied;
+    },
   });
+  const version = store.schemaVersion;
+  await store.close();
+  io.stdout(
+    store.kind === "memory"
+      ? "the memory store keeps no schema; nothing to migrate\n"
+      : `${redact(url)}: schema at version ${version} (${applied} migration${applied === 1 ? "" : "s"} applied)\n`,
+  );
+  return 0;
 }
 
 /** `plumbline purge`: deletes ledger rows past retention and delivery keys past 7 days. */
-export function runPurge(argv: readonly string[], io: CliIo): Promise<number> {
-  return guarded("purge", io, async () => {
-    const parsed = parseCommandArgs(
-      argv,
-      {
-        db: { type: "string" },
-        "retention-days": { type: "string" },
-        "dedupe-days": { type: "string" },
-        now: { type: "string" },
-      },
-      PURGE_USAGE,
-    );
-    noPositionals(parsed.positionals, PURGE_USAGE);
-    const retentionDays = days(
-      parsed.values["retention-days"],
-      "--retention-days",
-      DEFAULT_RETENTION_DAYS,
-    );
-    const dedupeDays = days(parsed.values["dedupe-days"], "--dedupe-days", DEFAULT_DEDUPE_DAYS);
-    const now = typeof parsed.values.now === "string" ? parseNow(parsed.values.now) : Date.now();
-    const url = databaseUrl(parsed.values.db, io);
-    const store: Store = await openStore(url, storeOptions(io));
-    try {
-      const counts = await purge(store, { now, retentionDays, dedupeDays });
-      io.stdout(
-        `purged ${counts.messages} ledger messages older than ${retentionDays} days and ${counts.deliveries} delivery keys older than ${dedupeDays} days\n`,
-      );
-    } finally {
-      await store.close();
-    }
-    return 0;
-  });
-}
-
-async function guarded(name: string, io: CliIo, body: () => Promise<number>): Promise<number> {
+export async function runPurge(argv: readonly string[], io: CliIo): Promise<number> {
+  const parsed = parseCommandArgs(
+    argv,
+    {
+      db: { type: "string" },
+      "retention-days": { type: "string" },
+      "dedupe-days": { type: "string" },
+      now: { type: "string" },
+    },
+    PURGE_USAGE,
+  );
+  noPositionals(parsed.positionals, PURGE_USAGE);
+  const retentionDays = days(
+    parsed.values["retention-days"],
+    "--retention-days",
+    DEFAULT_RETENTION_DAYS,
+  );
+  const dedupeDays = days(parsed.values["dedupe-days"], "--dedupe-days", DEFAULT_DEDUPE_DAYS);
+  const now = typeof parsed.values.now === "string" ? parseNow(parsed.values.now) : Date.now();
+  const url = databaseUrl(parsed.values.db, io);
+  const store: Store = await openStore(url, storeOptions(io));
   try {
-    return await body();
-  } catch (error) {
-    if (isPlumblineError(error)) {
-      io.stderr(
-        `plumbline ${name}: ${error.message}${error.hint ? ` (${error.hint})` : ""} [${error.code}]\n`,
-      );
-      return 2;
-    }
-    const message = error instanceof Error ? error.message : String(error);
-    io.stderr(
-      `plumbline ${name}: internal error: ${message}. Please report it with the command you ran.\n`,
+    const counts = await purge(store, { now, retentionDays, dedupeDays });
+    io.stdout(
+      `purged ${counts.messages} ledger messages older than ${retentionDays} days and ${counts.deliveries} delivery keys older than ${dedupeDays} days\n`,
     );
-    return 1;
+  } finally {
+    await store.close();
   }
+  return 0;
 }
 
 export function databaseUrl(flag: unknown, io: CliIo): string {

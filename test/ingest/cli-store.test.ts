@@ -2,7 +2,7 @@ import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, describe, expect, it } from "vitest";
-import { runIngest, runMigrate, runPurge } from "../../adapters/local/cli-store.js";
+import { main } from "../../adapters/local/cli.js";
 import { readEventLogFile } from "../../src/attention/read-event-log.js";
 import { LATEST_SCHEMA_VERSION } from "../../src/store/migrations.js";
 import { openStore } from "../../src/store/open-store.js";
@@ -37,12 +37,12 @@ describe("plumbline ingest / migrate / purge", () => {
     const log = writeLog("stream.jsonl", 600);
     const env = { DATABASE_URL: "sqlite:./db/cli.db", PLUMBLINE_ID_KEY: TEST_KEY };
     const first = io(env);
-    expect(await runIngest([log], first.io)).toBe(0);
+    expect(await main(["ingest", log], first.io)).toBe(0);
     expect(first.out.join("")).toBe(
       "ingested stream.jsonl into sqlite:./db/cli.db: 600 events, 600 applied, 0 already seen\n",
     );
     const second = io(env);
-    expect(await runIngest([log, "--db", "sqlite:./db/cli.db"], second.io)).toBe(0);
+    expect(await main(["ingest", log, "--db", "sqlite:./db/cli.db"], second.io)).toBe(0);
     expect(second.out.join("")).toMatch(/600 events, 0 applied, 600 already seen\n$/);
 
     const { events } = await readEventLogFile(join(dir, log));
@@ -56,18 +56,20 @@ describe("plumbline ingest / migrate / purge", () => {
   it("migrates and purges with one-line summaries", async () => {
     const env = { DATABASE_URL: "sqlite:./db/maint.db", PLUMBLINE_ID_KEY: TEST_KEY };
     const m1 = io(env);
-    expect(await runMigrate([], m1.io)).toBe(0);
+    expect(await main(["migrate"], m1.io)).toBe(0);
     expect(m1.out.join("")).toBe(
       `sqlite:./db/maint.db: schema at version ${LATEST_SCHEMA_VERSION} (1 migration applied)\n`,
     );
     const m2 = io(env);
-    expect(await runMigrate([], m2.io)).toBe(0);
+    expect(await main(["migrate"], m2.io)).toBe(0);
     expect(m2.out.join("")).toMatch(/\(0 migrations applied\)\n$/);
     const log = writeLog("maint.jsonl", 300);
-    expect(await runIngest([log], io(env).io)).toBe(0);
+    expect(await main(["ingest", log], io(env).io)).toBe(0);
     // The stream starts 2026-11-02; 200 days later every message is past 91 days.
     const p = io(env);
-    expect(await runPurge(["--now", "2027-05-21T00:00:00Z", "--dedupe-days", "0"], p.io)).toBe(0);
+    expect(await main(["purge", "--now", "2027-05-21T00:00:00Z", "--dedupe-days", "0"], p.io)).toBe(
+      0,
+    );
     expect(p.out.join("")).toMatch(
       /^purged [1-9]\d* ledger messages older than 91 days and 300 delivery keys older than 0 days\n$/,
     );
@@ -97,23 +99,27 @@ describe("plumbline ingest / migrate / purge", () => {
     writeLog("stream.jsonl", 10);
     for (const [argv, env, pattern] of cases) {
       const run = io(env);
-      expect(await runIngest(argv, run.io)).toBe(2);
+      expect(await main(["ingest", ...argv], run.io)).toBe(2);
       const text = run.err.join("");
       expect(text).toMatch(pattern);
       expect(text.trim().split("\n")).toHaveLength(1);
       expect(text).not.toMatch(/\n\s+at /);
     }
     const purgeBad = io({ PLUMBLINE_ID_KEY: TEST_KEY });
-    expect(await runPurge(["--retention-days=-3", "--db", "sqlite::memory:"], purgeBad.io)).toBe(2);
+    expect(
+      await main(["purge", "--retention-days=-3", "--db", "sqlite::memory:"], purgeBad.io),
+    ).toBe(2);
     expect(purgeBad.err.join("")).toMatch(/--retention-days must be a whole number/);
     const nowBad = io({ PLUMBLINE_ID_KEY: TEST_KEY });
-    expect(await runPurge(["--now", "yesterday", "--db", "sqlite::memory:"], nowBad.io)).toBe(2);
-    expect(await runMigrate(["extra"], io().io)).toBe(2);
+    expect(await main(["purge", "--now", "yesterday", "--db", "sqlite::memory:"], nowBad.io)).toBe(
+      2,
+    );
+    expect(await main(["migrate", "extra"], io().io)).toBe(2);
   });
 
   it("uses the default database and a generated key file beside it", async () => {
     const log = writeLog("default.jsonl", 20);
-    expect(await runIngest([log], io({}).io)).toBe(0);
+    expect(await main(["ingest", log], io({}).io)).toBe(0);
     expect(readFileSync(join(dir, "data/plumbline.db.key"), "utf8").trim()).toMatch(
       /^[0-9a-f]{64}$/,
     );
