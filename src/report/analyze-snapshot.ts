@@ -10,7 +10,7 @@ import type { AttentionInput } from "../domain/counts.js";
 import { PlumblineError } from "../domain/errors.js";
 import type { LedgerSnapshot } from "../domain/ledger.js";
 import type { AnalysisReport } from "../domain/report.js";
-import { type AnalysisSettings, DAY_MS, resolveThreshold } from "../domain/settings.js";
+import { type AnalysisSettings, resolveThreshold } from "../domain/settings.js";
 import { analyzeInfluence, type InfluenceResult } from "../influence/analyze-influence.js";
 import type { AttentionRows } from "../influence/attention-rows.js";
 import { deriveSeed } from "../ports/rng.js";
@@ -86,9 +86,4 @@ export function analyzeSnapshotDetailed(
     ...(options.transform ? { transform: options.transform } : {}),
   });
   return { report: assembleReport(frame, input, influence), input, influence };
-}
-
-/** The window's first instant (exclusive) for a report ending at `until`. */
-export function windowStart(until: number, windowDays: number): number {
-  return until - windowDays * DAY_MS;
 }
