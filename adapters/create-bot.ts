@@ -6,6 +6,7 @@
  * nothing here knows a platform.
  */
 
+import { analyzeSnapshot } from "../src/analysis/analyze-snapshot.js";
 import { readChannelSettings } from "../src/commands/channel-settings-store.js";
 import type {
   CommandContext,
@@ -23,7 +24,6 @@ import type { ChatPlatform, OutgoingMessage } from "../src/ports/chat-platform.j
 import type { Clock } from "../src/ports/clock.js";
 import type { Logger } from "../src/ports/logger.js";
 import { PSEUDONYM_PREFIX, type Store } from "../src/ports/store.js";
-import { analyzeSnapshot } from "../src/report/analyze-snapshot.js";
 import { digestMessage } from "../src/report/digest-blocks.js";
 import { noteMessage } from "../src/report/note-blocks.js";
 import { Scheduler } from "../src/schedule/scheduler.js";

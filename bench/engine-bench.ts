@@ -10,6 +10,7 @@
  */
 import { DirectedGraph } from "graphology";
 import pagerankModule from "graphology-metrics/centrality/pagerank.js";
+import { analyzeSnapshot } from "../src/analysis/analyze-snapshot.js";
 import { countMatrixFromSignals } from "../src/attention/build-attention-input.js";
 import { buildLedgers } from "../src/attention/channel-ledger.js";
 import { findClosedGroups } from "../src/attention/closed-groups.js";
@@ -23,7 +24,6 @@ import { drawAttentionRows } from "../src/influence/posterior-draws.js";
 import { secondEigenvalue } from "../src/influence/second-eigenvalue.js";
 import { stationaryVector } from "../src/influence/stationary-vector.js";
 import { createSeededRng, deriveSeed } from "../src/ports/rng.js";
-import { analyzeSnapshot } from "../src/report/analyze-snapshot.js";
 import { syntheticChannel } from "./synthetic-channel.js";
 
 /** One line of a bench table; `met` is set only for rows that carry a target. */

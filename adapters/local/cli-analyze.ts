@@ -3,15 +3,16 @@
  * `plumbline analyze`, `compare` and `whatif`: read a channel, run the one analysis, print the
  * readable summary with the cautions, or the report object with `--json`.
  */
+
+import { analyzeSnapshot } from "../../src/analysis/analyze-snapshot.js";
+import { comparePeriods } from "../../src/analysis/compare-periods.js";
+import { whatIfCap } from "../../src/analysis/what-if.js";
 import { parseDateRange, windowAndPrevious } from "../../src/domain/date-range.js";
 import { PlumblineError } from "../../src/domain/errors.js";
 import type { AnalysisSettings } from "../../src/domain/settings.js";
-import { analyzeSnapshot } from "../../src/report/analyze-snapshot.js";
 import { compareBlocks, whatIfBlocks } from "../../src/report/compare-blocks.js";
-import { comparePeriods } from "../../src/report/compare-periods.js";
 import { renderText } from "../../src/report/render-text.js";
 import { summaryBlocks } from "../../src/report/summary-blocks.js";
-import { whatIfCap } from "../../src/report/what-if.js";
 import { ANALYSIS_OPTIONS, parseCommandArgs, parseUntil, settingsFromFlags } from "./cli-flags.js";
 import type { CliIo } from "./cli-io.js";
 import { loadChannel } from "./load-channel.js";

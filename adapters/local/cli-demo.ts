@@ -6,38 +6,17 @@
  */
 import { writeFile } from "node:fs/promises";
 import { resolve } from "node:path";
+import { analyzeSnapshot } from "../../src/analysis/analyze-snapshot.js";
+import { comparePeriods } from "../../src/analysis/compare-periods.js";
 import { buildLedgers } from "../../src/attention/channel-ledger.js";
-import { parseDateRange } from "../../src/domain/date-range.js";
 import { PlumblineError } from "../../src/domain/errors.js";
-import { DAY_MS, DEFAULT_SETTINGS } from "../../src/domain/settings.js";
-import { analyzeSnapshot } from "../../src/report/analyze-snapshot.js";
-import { comparePeriods } from "../../src/report/compare-periods.js";
+import { DEFAULT_SETTINGS } from "../../src/domain/settings.js";
 import { parseCommandArgs } from "./cli-flags.js";
 import type { CliIo } from "./cli-io.js";
 import { runDemoReplay } from "./demo-replay.js";
-import {
-  DEMO_CHANNEL,
-  DEMO_START,
-  DEMO_SWITCH_WEEK,
-  DEMO_WEEKS,
-  demoEvents,
-  demoLog,
-} from "./demo-scenario.js";
+import { DEMO_CHANNEL, demoEvents, demoLog, demoRanges } from "./demo-scenario.js";
 
 const USAGE = "plumbline demo [--write-log FILE] [--json]";
-
-function day(ms: number): string {
-  return new Date(ms).toISOString().slice(0, 10);
-}
-
-/** The two formats as ranges: coordinator-led weeks (A) and rotating hosts (B). */
-export function demoRanges() {
-  const split = DEMO_START + DEMO_SWITCH_WEEK * 7 * DAY_MS;
-  return {
-    a: parseDateRange(`${day(DEMO_START)}..${day(split - DAY_MS)}`),
-    b: parseDateRange(`${day(split)}..${day(DEMO_START + DEMO_WEEKS * 7 * DAY_MS - DAY_MS)}`),
-  };
-}
 
 export async function runDemo(argv: readonly string[], io: CliIo): Promise<number> {
   const parsed = parseCommandArgs(

@@ -15,7 +15,6 @@ import { silentLogger } from "../../src/ports/logger.js";
 import { CAUTIONS_FULL } from "../../src/report/cautions.js";
 import { openStore } from "../../src/store/open-store.js";
 import { createBot } from "../create-bot.js";
-import { demoRanges } from "./cli-demo.js";
 import { ConsoleSession } from "./console-session.js";
 import {
   DEMO_CHANNEL,
@@ -24,6 +23,7 @@ import {
   DEMO_WEEKS,
   demoDescription,
   demoEvents,
+  demoRanges,
 } from "./demo-scenario.js";
 import { LocalPlatform } from "./local-platform.js";
 

@@ -6,6 +6,8 @@
  * and members answer one another. Seeded, so every run produces the same log. All names and
  * events are made up for the demo.
  */
+
+import { parseDateRange } from "../../src/domain/date-range.js";
 import type { ChatEvent, ConsentLevel } from "../../src/domain/events.js";
 import { DAY_MS } from "../../src/domain/settings.js";
 import { createSeededRng, type Rng } from "../../src/ports/rng.js";
@@ -169,4 +171,17 @@ export function demoDescription(): string {
     "Weeks 5–8: rotating hosts open the threads and members answer one another.",
     "Consent: 10 members named, 3 counted but never named, 1 has not opted in (never counted).",
   ].join("\n");
+}
+
+function day(ms: number): string {
+  return new Date(ms).toISOString().slice(0, 10);
+}
+
+/** The two formats as ranges: coordinator-led weeks (A) and rotating hosts (B). */
+export function demoRanges() {
+  const split = DEMO_START + DEMO_SWITCH_WEEK * 7 * DAY_MS;
+  return {
+    a: parseDateRange(`${day(DEMO_START)}..${day(split - DAY_MS)}`),
+    b: parseDateRange(`${day(split)}..${day(DEMO_START + DEMO_WEEKS * 7 * DAY_MS - DAY_MS)}`),
+  };
 }

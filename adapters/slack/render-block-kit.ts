@@ -7,7 +7,7 @@
  * Slack's limits are kept: 3,000 characters per section text, 2,000
  * per field, 50 blocks per message (docs.slack.dev Block Kit reference, "section" and "messages").
  */
-import type { Block } from "../../src/report/blocks.js";
+import type { Block } from "../../src/domain/blocks.js";
 import { renderText } from "../../src/report/render-text.js";
 
 /** The subset of Block Kit this renderer produces. */

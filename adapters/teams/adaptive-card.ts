@@ -8,8 +8,9 @@
  * after the bars as an `Image` with a `data:` URL and its alternative text (or, when it could not
  * be made, a line saying it is missing).
  */
+
+import type { BarRow, Block } from "../../src/domain/blocks.js";
 import type { OutgoingMessage } from "../../src/ports/chat-platform.js";
-import type { BarRow, Block } from "../../src/report/blocks.js";
 
 export const ADAPTIVE_CARD_CONTENT_TYPE = "application/vnd.microsoft.card.adaptive";
 export const ADAPTIVE_CARD_VERSION = "1.5";

@@ -4,19 +4,20 @@
  * facilitators only), `me`, `compare [A B]` and `whatif cap <share>`. Every one analyses the
  * channel at `now` with the channel's own settings (DESIGN.md §4).
  */
+
+import { analyzeSnapshot } from "../analysis/analyze-snapshot.js";
+import { comparePeriods } from "../analysis/compare-periods.js";
+import { whatIfCap } from "../analysis/what-if.js";
+import type { Block } from "../domain/blocks.js";
 import { analysisSettingsFor, type ChannelSettings } from "../domain/channel-settings.js";
 import { type DateRange, parseDateRange, windowAndPrevious } from "../domain/date-range.js";
 import { PlumblineError } from "../domain/errors.js";
 import type { LedgerSnapshot } from "../domain/ledger.js";
 import type { AnalysisReport } from "../domain/report.js";
-import { analyzeSnapshot } from "../report/analyze-snapshot.js";
-import type { Block } from "../report/blocks.js";
 import { compareBlocks, whatIfBlocks } from "../report/compare-blocks.js";
-import { comparePeriods } from "../report/compare-periods.js";
 import { EXPLAIN_POINTER } from "../report/digest-blocks.js";
 import { meBlocks } from "../report/member-blocks.js";
 import { summaryBlocks } from "../report/summary-blocks.js";
-import { whatIfCap } from "../report/what-if.js";
 import { readChannelSettings } from "./channel-settings-store.js";
 import type { CommandContext, CommandDeps, CommandResponse } from "./command-types.js";
 import { consentAt, namingPolicy, readerId, snapshotIds } from "./member-view.js";

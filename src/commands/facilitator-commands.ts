@@ -4,9 +4,10 @@
  * <value>`, `group <member> <label|clear>` and `facilitator add|remove <member>`. A refused or
  * invalid request changes nothing.
  */
+
+import type { Block } from "../domain/blocks.js";
 import { PlumblineError } from "../domain/errors.js";
 import { ingest } from "../ingest/ingest.js";
-import type { Block } from "../report/blocks.js";
 import { settingsRows } from "../report/member-blocks.js";
 import { readChannelSettings, writeChannelSettings } from "./channel-settings-store.js";
 import type { CommandContext, CommandDeps, CommandResponse } from "./command-types.js";

@@ -5,8 +5,9 @@
  * or member) come back as a private answer that names the fix; anything else is rethrown for the
  * adapter to log, never shown as a stack trace.
  */
+
+import type { Block } from "../domain/blocks.js";
 import { isPlumblineError } from "../domain/errors.js";
-import type { Block } from "../report/blocks.js";
 import { explainMessage } from "../report/explain-blocks.js";
 import { helpMessage } from "../report/help-text.js";
 import { check, compare, me, whatIf } from "./analysis-commands.js";

@@ -5,10 +5,10 @@
  * erased, DESIGN.md §7) and `status`.
  */
 
+import type { Block } from "../domain/blocks.js";
 import { PlumblineError } from "../domain/errors.js";
 import type { ConsentLevel } from "../domain/events.js";
 import { ingest } from "../ingest/ingest.js";
-import type { Block } from "../report/blocks.js";
 import { CONSENT_NOTICE_VERSION, consentNoticeBlocks } from "../report/consent-notice.js";
 import { statusBlocks } from "../report/member-blocks.js";
 import { viewChannel } from "./analysis-commands.js";

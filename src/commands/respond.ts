@@ -3,7 +3,7 @@
  * Small helpers that turn neutral blocks into a `CommandResponse`, with the plain-text fallback
  * rendered from the same blocks.
  */
-import type { Block } from "../report/blocks.js";
+import type { Block } from "../domain/blocks.js";
 import { renderText } from "../report/render-text.js";
 import type { CommandResponse, Visibility } from "./command-types.js";
 

@@ -4,7 +4,7 @@
  * privately, and look up a named member's display name. Adapters (Slack, Teams, local) implement
  * it and render the neutral blocks their own way; the core never sees a platform payload.
  */
-import type { Block } from "../report/blocks.js";
+import type { Block } from "../domain/blocks.js";
 
 /** A chart to show with a message: SVG markup (core output) and its alternative text. */
 export interface MessageChart {

@@ -3,12 +3,13 @@
  * Compare and what-if results as neutral blocks: the two periods (or before/after) side by side
  * on the headline figures, the change, and how sure the change is.
  */
+
+import type { CompareReport } from "../analysis/compare-periods.js";
+import type { WhatIfReport } from "../analysis/what-if.js";
+import type { Block, FigureRow } from "../domain/blocks.js";
 import type { AnalysisReport } from "../domain/report.js";
-import type { Block, FigureRow } from "./blocks.js";
 import { CAUTIONS_LINE } from "./cautions.js";
-import type { CompareReport } from "./compare-periods.js";
 import { decimal1, percent, percentRange } from "./format.js";
-import type { WhatIfReport } from "./what-if.js";
 
 function headline(report: AnalysisReport): string {
   if (report.status === "insufficient") {

@@ -4,7 +4,7 @@
  * stored, who sees what, how to leave, and that the figures are a rough proxy never to be used for
  * HR decisions. Its version is logged with every consent, so change the version with the text.
  */
-import type { Block } from "./blocks.js";
+import type { Block } from "../domain/blocks.js";
 
 /** Version of the notice text below; recorded with each `join`. */
 export const CONSENT_NOTICE_VERSION = "2026-11-a";

@@ -5,9 +5,10 @@
  * previous digest, structure, labelled group shares, the share bars, a plain reading, the cautions
  * and a pointer to the how to read. With too little data it says how much more is needed.
  */
+
+import type { BarRow, Block, FigureRow } from "../domain/blocks.js";
 import type { AnalysisReport } from "../domain/report.js";
 import type { OutgoingMessage } from "../ports/chat-platform.js";
-import type { BarRow, Block, FigureRow } from "./blocks.js";
 import { CAUTIONS_LINE } from "./cautions.js";
 import { shareBarsChart } from "./charts/share-bars-chart.js";
 import { decimal1, isoDay, percent, percentRange, voicesOf } from "./format.js";

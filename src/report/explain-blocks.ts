@@ -5,8 +5,9 @@
  * figures cannot tell, and the full cautions. Written for a facilitator who does no maths. The
  * model is DeGroot's repeated averaging (DeGroot 1974, "Reaching a consensus", JASA 69:118–121).
  */
+
+import type { Block } from "../domain/blocks.js";
 import type { OutgoingMessage } from "../ports/chat-platform.js";
-import type { Block } from "./blocks.js";
 import { CAUTIONS_FULL } from "./cautions.js";
 import { renderText } from "./render-text.js";
 

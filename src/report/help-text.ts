@@ -3,8 +3,9 @@
  * The `/influence help` answer: every command with one line each, and who may use it. Also the
  * answer to input the bot does not understand.
  */
+
+import type { Block, FigureRow } from "../domain/blocks.js";
 import type { OutgoingMessage } from "../ports/chat-platform.js";
-import type { Block, FigureRow } from "./blocks.js";
 import { renderText } from "./render-text.js";
 
 export interface HelpEntry {

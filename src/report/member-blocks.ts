@@ -4,10 +4,11 @@
  * being above the line, or why they are not counted) and `status` (their consent, how much the
  * window holds, the channel's settings and when the next digest is due).
  */
+
+import type { Block, FigureRow } from "../domain/blocks.js";
 import type { ChannelSettings, Weekday } from "../domain/channel-settings.js";
 import type { ConsentLevel } from "../domain/events.js";
 import type { AnalysisReport } from "../domain/report.js";
-import type { Block, FigureRow } from "./blocks.js";
 import { neededText, windowText } from "./digest-blocks.js";
 import { isoDay, percent, percentRange } from "./format.js";
 import { plainReading } from "./reading.js";

@@ -4,9 +4,10 @@
  * line with enough probability. It names nobody unless the naming rules allow it, says what the
  * figure means for the channel's pooled view, and offers a few things a facilitator might try.
  */
+
+import type { Block } from "../domain/blocks.js";
 import type { AnalysisReport } from "../domain/report.js";
 import type { OutgoingMessage } from "../ports/chat-platform.js";
-import type { Block } from "./blocks.js";
 import { CAUTIONS_LINE } from "./cautions.js";
 import { EXPLAIN_POINTER, windowText } from "./digest-blocks.js";
 import { decimal1, percent, percentRange } from "./format.js";

@@ -3,7 +3,7 @@
  * Renders neutral blocks as plain text (CLI, console, logs). Bars: `■` up to the share, `·` on to
  * the interval's high end, `[` and `]` at the interval's ends, `|` where the line falls.
  */
-import type { BarRow, Block } from "./blocks.js";
+import type { BarRow, Block } from "../domain/blocks.js";
 
 const BAR_WIDTH = 32;
 

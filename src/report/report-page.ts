@@ -6,9 +6,11 @@
  * cautions. Inline CSS and SVG only, and a Content-Security-Policy that forbids every fetch, so the
  * page makes no network request and works offline. Members are labelled by the naming rules.
  */
+
+import type { CompareReport } from "../analysis/compare-periods.js";
+import type { Block } from "../domain/blocks.js";
 import type { AttentionInput } from "../domain/counts.js";
 import type { AnalysisReport } from "../domain/report.js";
-import type { Block } from "./blocks.js";
 import { attentionMapChart } from "./charts/attention-map.js";
 import { bandLineChart } from "./charts/band-line-chart.js";
 import { blocksHtml } from "./charts/blocks-html.js";
@@ -19,7 +21,6 @@ import { shareBarsChart } from "./charts/share-bars-chart.js";
 import { escapeXml } from "./charts/svg.js";
 import type { WeeklyPoint } from "./charts/weekly-series.js";
 import { compareBlocks } from "./compare-blocks.js";
-import type { CompareReport } from "./compare-periods.js";
 import { explainBlocks } from "./explain-blocks.js";
 import { decimal1, percent } from "./format.js";
 import type { NamingPolicy } from "./naming.js";

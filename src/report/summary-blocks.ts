@@ -3,8 +3,9 @@
  * The analysis summary as neutral blocks: headline figures, the share bars with their intervals
  * and the line, structure, groups, contributors, a plain reading and the cautions.
  */
+
+import type { Block, FigureRow } from "../domain/blocks.js";
 import type { AnalysisReport } from "../domain/report.js";
-import type { Block, FigureRow } from "./blocks.js";
 import { CAUTIONS_LINE } from "./cautions.js";
 import { neededText, shareBars, structureText, windowText } from "./digest-blocks.js";
 import { decimal1, percent, percentRange, voicesOf } from "./format.js";

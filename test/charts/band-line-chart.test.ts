@@ -4,8 +4,8 @@
  * digest would have shown at each week's end.
  */
 import { describe, expect, it } from "vitest";
+import { analyzeSnapshot } from "../../src/analysis/analyze-snapshot.js";
 import { DAY_MS } from "../../src/domain/settings.js";
-import { analyzeSnapshot } from "../../src/report/analyze-snapshot.js";
 import { bandLineChart, bandLineLayout } from "../../src/report/charts/band-line-chart.js";
 import { weekEnds, weeklySeries } from "../../src/report/charts/weekly-series.js";
 import { decimal1 } from "../../src/report/format.js";

@@ -3,10 +3,11 @@
  * with a mix of consent levels and distinctive ids, so a test can tell whether a `counted`
  * member's id reached the markup.
  */
+
+import { analyzeSnapshotDetailed } from "../../src/analysis/analyze-snapshot.js";
 import type { ConsentLevel } from "../../src/domain/events.js";
 import type { AnalysisSettings } from "../../src/domain/settings.js";
 import { DAY_MS, DEFAULT_SETTINGS } from "../../src/domain/settings.js";
-import { analyzeSnapshotDetailed } from "../../src/report/analyze-snapshot.js";
 import { mentionEvents, snapshotOf } from "../report/log-builders.js";
 
 /** Named members may be named; the others are only counted. */

@@ -3,9 +3,9 @@
  * figures; a period without figures is labelled as such.
  */
 import { describe, expect, it } from "vitest";
+import { comparePeriods } from "../../src/analysis/compare-periods.js";
 import { parseDateRange } from "../../src/domain/date-range.js";
 import { axisX, compareChart } from "../../src/report/charts/compare-chart.js";
-import { comparePeriods } from "../../src/report/compare-periods.js";
 import { decimal1 } from "../../src/report/format.js";
 import { FIXTURE_SETTINGS, twoPhaseSnapshot } from "./chart-fixtures.js";
 

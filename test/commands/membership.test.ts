@@ -4,12 +4,12 @@
  * drop out of the next check; too little data explains itself with numbers.
  */
 import { describe, expect, it } from "vitest";
+import { analyzeSnapshot } from "../../src/analysis/analyze-snapshot.js";
 import { consentAt, snapshotIds } from "../../src/commands/member-view.js";
 import {
   analysisSettingsFor,
   DEFAULT_CHANNEL_SETTINGS,
 } from "../../src/domain/channel-settings.js";
-import { analyzeSnapshot } from "../../src/report/analyze-snapshot.js";
 import { CONSENT_NOTICE_VERSION } from "../../src/report/consent-notice.js";
 import { percent, percentRange } from "../../src/report/format.js";
 import { busyChannel, CHANNEL, DAY, mentions, NOW, runner, T0 } from "./channel-fixture.js";

@@ -5,11 +5,11 @@
  * platform id; members who end `off` are pseudonymous in the store and absent from both reports.
  */
 import { describe, expect, it } from "vitest";
+import { analyzeSnapshot } from "../../src/analysis/analyze-snapshot.js";
 import { buildLedgers } from "../../src/attention/channel-ledger.js";
 import { DEFAULT_SETTINGS } from "../../src/domain/settings.js";
 import { ingest, ingestBatch } from "../../src/ingest/ingest.js";
 import type { Store } from "../../src/ports/store.js";
-import { analyzeSnapshot } from "../../src/report/analyze-snapshot.js";
 import { createMemoryStore } from "../../src/store/memory-store.js";
 import { openStore } from "../../src/store/open-store.js";
 import { dropSchema, freshSchema, PG_URL, shouldRunPostgres } from "../store/postgres-env.js";

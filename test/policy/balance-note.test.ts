@@ -1,4 +1,5 @@
 import { describe, expect, it } from "vitest";
+import { analyzeSnapshot } from "../../src/analysis/analyze-snapshot.js";
 import { DAY_MS, DEFAULT_SETTINGS } from "../../src/domain/settings.js";
 import {
   type BalanceNoteState,
@@ -7,7 +8,6 @@ import {
   parseBalanceNoteState,
   REARM_MARGIN,
 } from "../../src/policy/balance-note.js";
-import { analyzeSnapshot } from "../../src/report/analyze-snapshot.js";
 import { mentionEvents, mutualPairs, snapshotOf } from "../report/log-builders.js";
 import { insufficientReport, makeReport } from "./report-builders.js";
 

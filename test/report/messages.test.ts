@@ -5,8 +5,8 @@
  * Times, 2nd ed. 2017, §1.6; from memory).
  */
 import { describe, expect, it } from "vitest";
+import { analyzeSnapshot } from "../../src/analysis/analyze-snapshot.js";
 import { type AnalysisSettings, DEFAULT_SETTINGS } from "../../src/domain/settings.js";
-import { analyzeSnapshot } from "../../src/report/analyze-snapshot.js";
 import { CAUTIONS_FULL, CAUTIONS_LINE } from "../../src/report/cautions.js";
 import { consentNoticeBlocks } from "../../src/report/consent-notice.js";
 import { digestMessage } from "../../src/report/digest-blocks.js";

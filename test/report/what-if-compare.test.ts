@@ -4,13 +4,13 @@
  */
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
+import { comparePeriods } from "../../src/analysis/compare-periods.js";
+import { whatIfCap } from "../../src/analysis/what-if.js";
 import type { CountMatrix } from "../../src/domain/counts.js";
 import { parseDateRange } from "../../src/domain/date-range.js";
 import { DEFAULT_SETTINGS } from "../../src/domain/settings.js";
 import { pointAttentionRows } from "../../src/influence/attention-rows.js";
 import { capAttentionRows } from "../../src/influence/cap-attention.js";
-import { comparePeriods } from "../../src/report/compare-periods.js";
-import { whatIfCap } from "../../src/report/what-if.js";
 import { mentionEvents, snapshotOf, T0 } from "./log-builders.js";
 
 function denseRow(rows: ReturnType<typeof pointAttentionRows>, i: number): number[] {

@@ -12,9 +12,9 @@ import { svgToRgba } from "../../adapters/chart-image.js";
 import { adaptiveCard } from "../../adapters/teams/adaptive-card.js";
 import { CARD_CHART_WIDTH, cardChartRenderer } from "../../adapters/teams/card-chart.js";
 import { encodeIndexedPng } from "../../adapters/teams/png-encoder.js";
+import { analyzeSnapshotDetailed } from "../../src/analysis/analyze-snapshot.js";
 import { DEFAULT_SETTINGS } from "../../src/domain/settings.js";
 import { MemoryLogger } from "../../src/ports/logger.js";
-import { analyzeSnapshotDetailed } from "../../src/report/analyze-snapshot.js";
 import { digestMessage } from "../../src/report/digest-blocks.js";
 import { mentionEvents, snapshotOf } from "../report/log-builders.js";
 

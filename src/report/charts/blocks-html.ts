@@ -4,7 +4,7 @@
  * figure tables, cautions and footers. Bars are left to the SVG charts and skipped here. Every
  * piece of text is escaped; nothing is taken as markup.
  */
-import type { Block } from "../blocks.js";
+import type { Block } from "../../domain/blocks.js";
 import { escapeXml } from "./svg.js";
 
 /** HTML for the blocks; `headingLevel` is the level of `heading` blocks (2–4). */

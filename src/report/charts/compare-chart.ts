@@ -4,8 +4,9 @@
  * share, period A and period B as a point with its interval on one common axis, each labelled with
  * its period and figures, so the change and its uncertainty read at a glance.
  */
+
+import type { CompareReport } from "../../analysis/compare-periods.js";
 import type { AnalysisReport } from "../../domain/report.js";
-import type { CompareReport } from "../compare-periods.js";
 import { decimal1, percent, percentRange } from "../format.js";
 import { CHART_COLOURS } from "./palette.js";
 import { num, svgFrame, text } from "./svg.js";

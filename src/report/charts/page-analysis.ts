@@ -4,13 +4,14 @@
  * attention counts behind it (one `analyzeSnapshotDetailed` run), the weekly history, and an
  * optional compare of two periods. The caller picks the naming policy and renders.
  */
+
+import { analyzeSnapshotDetailed } from "../../analysis/analyze-snapshot.js";
+import { type CompareReport, comparePeriods } from "../../analysis/compare-periods.js";
 import type { AttentionInput } from "../../domain/counts.js";
 import type { DateRange } from "../../domain/date-range.js";
 import type { LedgerSnapshot } from "../../domain/ledger.js";
 import type { AnalysisReport } from "../../domain/report.js";
 import type { AnalysisSettings } from "../../domain/settings.js";
-import { analyzeSnapshotDetailed } from "../analyze-snapshot.js";
-import { type CompareReport, comparePeriods } from "../compare-periods.js";
 import { type WeeklyPoint, weeklySeries } from "./weekly-series.js";
 
 export interface PageAnalysis {

@@ -4,10 +4,11 @@
  * end (`until`, `until` − 7 days, …) over the retained history, so every point is exactly the
  * figure a digest at that time would have shown (the one computation of DESIGN.md §4).
  */
+
+import { analyzeSnapshot } from "../../analysis/analyze-snapshot.js";
 import type { LedgerSnapshot } from "../../domain/ledger.js";
 import type { Interval } from "../../domain/report.js";
 import { type AnalysisSettings, DAY_MS } from "../../domain/settings.js";
-import { analyzeSnapshot } from "../analyze-snapshot.js";
 
 export interface WeeklyPoint {
   /** End of the week's window (epoch ms). */

@@ -3,10 +3,10 @@
  * against closed forms from outside the project.
  */
 import { describe, expect, it } from "vitest";
+import { analyzeSnapshot } from "../../src/analysis/analyze-snapshot.js";
 import { type AnalysisSettings, DEFAULT_SETTINGS } from "../../src/domain/settings.js";
-import { analyzeSnapshot } from "../../src/report/analyze-snapshot.js";
+import { mentionEvents, mutualPairs, snapshotOf, T0 } from "../report/log-builders.js";
 import { karateTies } from "../support/karate-club.js";
-import { mentionEvents, mutualPairs, snapshotOf, T0 } from "./log-builders.js";
 
 const exact: AnalysisSettings = {
   ...DEFAULT_SETTINGS,
