@@ -1,0 +1,95 @@
+/**
+ * @module calibrate
+ * Entry of `npm run calibrate` (never part of `npm test`): simulates channels from known attention
+ * matrices (true-matrix.ts, simulate-channel.ts), analyses each with the product path
+ * (`analyzeSnapshot`, default settings), and prints per cell the coverage, leader, bias and note
+ * rates with PASS/MISSED against DESIGN.md §4's floor and whether the goal is met. A progress line
+ * goes to stderr. Exit 0 unless `--strict` and a cell misses the floor (2 on a bad option).
+ */
+import { execFileSync } from "node:child_process";
+import { availableParallelism, cpus, loadavg } from "node:os";
+import { isPlumblineError } from "../../src/domain/errors.js";
+import { DEFAULT_SETTINGS } from "../../src/domain/settings.js";
+import { markdownTable, textTable } from "./format-table.js";
+import { type CalibrationPlan, parsePlan, USAGE } from "./plan.js";
+import { runPlan } from "./run-jobs.js";
+
+function commit(): string {
+  try {
+    const hash = execFileSync("git", ["rev-parse", "--short", "HEAD"], { encoding: "utf8" }).trim();
+    const dirty = execFileSync("git", ["status", "--porcelain", "--", "src"], {
+      encoding: "utf8",
+    }).trim();
+    return dirty ? `${hash} (src/ modified)` : hash;
+  } catch {
+    return "unknown";
+  }
+}
+
+function header(plan: CalibrationPlan, seconds: number): string[] {
+  const s = DEFAULT_SETTINGS;
+  return [
+    `date ${new Date().toISOString().slice(0, 10)}, commit ${commit()}, node ${process.version}, ${cpus().length} × ${cpus()[0]?.model ?? "cpu"}, load ${loadavg()[0].toFixed(2)}, ${plan.workers} worker(s), ${seconds.toFixed(0)} s`,
+    `product settings: defaults (background ${s.background}, samples ${s.samples}, interval ${s.interval}, confidence ${s.confidence}, threshold ${s.threshold}, selfWeight ${s.selfWeight}, window ${s.windowDays} d; half-life ${s.halfLifeDays} d for "decay", 0 for "none"), clusters off`,
+    `suite: seed ${plan.seed}, channels per cell ${plan.channels ?? "40 (n ≤ 60), 16 (n = 200), 6 (n = 1000)"}`,
+  ];
+}
+
+async function main(): Promise<number> {
+  let parsed: ReturnType<typeof parsePlan>;
+  try {
+    parsed = parsePlan(process.argv.slice(2), availableParallelism());
+  } catch (error) {
+    if (isPlumblineError(error)) {
+      process.stderr.write(
+        `${error.code}: ${error.message}${error.hint ? ` (${error.hint})` : ""}\n`,
+      );
+      return 2;
+    }
+    throw error;
+  }
+  if (parsed.help) {
+    process.stdout.write(`${USAGE}\n`);
+    return 0;
+  }
+  const { plan } = parsed;
+  const started = performance.now();
+  const tty = process.stderr.isTTY;
+  let lastPrinted = 0;
+  const summaries = await runPlan(plan, (done, total, job) => {
+    const now = performance.now();
+    if (done < total && now - lastPrinted < (tty ? 250 : 10_000)) return;
+    lastPrinted = now;
+    const elapsed = (now - started) / 1000;
+    const eta = (elapsed / done) * (total - done);
+    const text = `calibrate: ${done}/${total} channels (last ${job.regime} n=${job.n} N/n=${job.ratio}), ${elapsed.toFixed(0)} s, about ${eta.toFixed(0)} s left`;
+    process.stderr.write(tty ? `\r${text}\x1b[K` : `${text}\n`);
+  });
+  if (tty) process.stderr.write("\n");
+  const seconds = (performance.now() - started) / 1000;
+  if (plan.format === "json") {
+    process.stdout.write(
+      `${JSON.stringify({ header: header(plan, seconds), plan, cells: summaries }, null, 2)}\n`,
+    );
+  } else if (plan.format === "markdown") {
+    process.stdout.write(
+      `${header(plan, seconds)
+        .map((l) => `${l}  `)
+        .join("\n")}\n\n`,
+    );
+    process.stdout.write(`${markdownTable(summaries)}\n`);
+  } else {
+    process.stdout.write(`${header(plan, seconds).join("\n")}\n\n${textTable(summaries)}\n`);
+  }
+  return plan.strict && summaries.some((s) => !s.floor.met) ? 1 : 0;
+}
+
+main().then(
+  (code) => {
+    process.exitCode = code;
+  },
+  (error: unknown) => {
+    process.stderr.write(`${error instanceof Error ? error.stack : String(error)}\n`);
+    process.exitCode = 1;
+  },
+);
