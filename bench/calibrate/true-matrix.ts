@@ -33,6 +33,8 @@ export interface TrueChannel {
   readonly leader: number | null;
   /** The leader's designed share t in leader regimes, else null. */
   readonly leaderShare: number | null;
+  /** Cliques regime: 1 for members of the smaller clique, 0 for the others; else null. */
+  readonly clique: Uint8Array | null;
 }
 
 export interface TrueChannelOptions {
@@ -170,6 +172,7 @@ export function trueChannel(options: TrueChannelOptions): TrueChannel {
     shares: trueStationary(rows, n),
     leader,
     leaderShare: t,
+    clique: regime === "cliques" ? Uint8Array.from(everyone, (i) => (inFirst(i) ? 1 : 0)) : null,
   };
 }
 
