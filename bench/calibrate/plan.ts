@@ -35,6 +35,8 @@ export interface CalibrationPlan {
   readonly shrinkage: boolean;
   /** Exit 1 when a cell misses the floor. */
   readonly strict: boolean;
+  /** Print a saved `--json` run instead of running. */
+  readonly from: string | null;
 }
 
 export const USAGE = `npm run calibrate -- [options]
@@ -48,7 +50,8 @@ export const USAGE = `npm run calibrate -- [options]
   --no-shrinkage   leave out the point estimate at the expected counts
   --markdown       print the table in the format of docs/calibration.md
   --json           print the cells as JSON
-  --strict         exit 1 when a cell misses the floor`;
+  --strict         exit 1 when a cell misses the floor
+  --from FILE      print a saved --json run again (with --markdown: the table of docs/calibration.md)`;
 
 function bad(message: string, code: "ARG_BAD_VALUE" | "ARG_UNKNOWN" = "ARG_BAD_VALUE"): never {
   throw new PlumblineError(code, message, {
@@ -93,6 +96,7 @@ export function parsePlan(
   let shrinkage = true;
   let strict = false;
   let help = false;
+  let from: string | null = null;
   for (let k = 0; k < args.length; k++) {
     const flag = args[k];
     const value = () => args[++k];
@@ -130,6 +134,12 @@ export function parsePlan(
       case "--strict":
         strict = true;
         break;
+      case "--from": {
+        const path = value();
+        if (path === undefined || path === "") bad("--from needs the path of a saved --json run");
+        from = path;
+        break;
+      }
       case "--help":
       case "-h":
         help = true;
@@ -139,7 +149,19 @@ export function parsePlan(
     }
   }
   return {
-    plan: { regimes, decays, sizes, ratios, channels, seed, format, workers, shrinkage, strict },
+    plan: {
+      regimes,
+      decays,
+      sizes,
+      ratios,
+      channels,
+      seed,
+      format,
+      workers,
+      shrinkage,
+      strict,
+      from,
+    },
     help,
   };
 }

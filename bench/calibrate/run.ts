@@ -4,15 +4,17 @@
  * matrices (true-matrix.ts, simulate-channel.ts), analyses each with the product path
  * (`analyzeSnapshot`, default settings), and prints per cell the coverage, leader, bias and note
  * rates with PASS/MISSED against DESIGN.md §4's floor and whether the goal is met. A progress line
- * goes to stderr. Exit 0 unless `--strict` and a cell misses the floor (2 on a bad option).
+ * goes to stderr. `--from FILE` prints a saved `--json` run again (e.g. as `--markdown`). Exit 0 unless `--strict` and a cell misses the floor (2 on a bad option).
  */
 import { execFileSync } from "node:child_process";
+import { readFileSync } from "node:fs";
 import { availableParallelism, cpus, loadavg } from "node:os";
 import { isPlumblineError } from "../../src/domain/errors.js";
 import { DEFAULT_SETTINGS } from "../../src/domain/settings.js";
 import { markdownTable, textTable } from "./format-table.js";
-import { type CalibrationPlan, parsePlan, USAGE } from "./plan.js";
+import { type CalibrationPlan, type OutputFormat, parsePlan, USAGE } from "./plan.js";
 import { runPlan } from "./run-jobs.js";
+import type { CellSummary } from "./summarize-cell.js";
 
 function commit(): string {
   try {
@@ -27,12 +29,24 @@ function commit(): string {
 }
 
 function header(plan: CalibrationPlan, seconds: number): string[] {
-  const s = DEFAULT_SETTINGS;
   return [
     `date ${new Date().toISOString().slice(0, 10)}, commit ${commit()}, node ${process.version}, ${cpus().length} × ${cpus()[0]?.model ?? "cpu"}, load ${loadavg()[0].toFixed(2)}, ${plan.workers} worker(s), ${seconds.toFixed(0)} s`,
-    `product settings: defaults (background ${s.background}, samples ${s.samples}, interval ${s.interval}, confidence ${s.confidence}, threshold ${s.threshold}, selfWeight ${s.selfWeight}, window ${s.windowDays} d; half-life ${s.halfLifeDays} d for "decay", 0 for "none"), clusters off`,
+    `product settings: the defaults ${JSON.stringify(DEFAULT_SETTINGS)}, except halfLifeDays 0 in "none" cells and clusters off`,
     `suite: seed ${plan.seed}, channels per cell ${plan.channels ?? "40 (n ≤ 60), 16 (n = 200), 6 (n = 1000)"}`,
   ];
+}
+
+/** Prints a run (fresh or read back from `--from`) in the plan's format. */
+function print(format: OutputFormat, lines: readonly string[], summaries: CellSummary[]): void {
+  if (format === "json") {
+    process.stdout.write(`${JSON.stringify({ header: lines, cells: summaries }, null, 2)}\n`);
+  } else if (format === "markdown") {
+    process.stdout.write(
+      `${lines.map((l) => `${l}  `).join("\n")}\n\n${markdownTable(summaries)}\n`,
+    );
+  } else {
+    process.stdout.write(`${lines.join("\n")}\n\n${textTable(summaries)}\n`);
+  }
 }
 
 async function main(): Promise<number> {
@@ -53,6 +67,14 @@ async function main(): Promise<number> {
     return 0;
   }
   const { plan } = parsed;
+  if (plan.from !== null) {
+    const saved = JSON.parse(readFileSync(plan.from, "utf8")) as {
+      header: string[];
+      cells: CellSummary[];
+    };
+    print(plan.format, saved.header, saved.cells);
+    return plan.strict && saved.cells.some((s) => !s.floor.met) ? 1 : 0;
+  }
   const started = performance.now();
   const tty = process.stderr.isTTY;
   let lastPrinted = 0;
@@ -61,26 +83,11 @@ async function main(): Promise<number> {
     if (done < total && now - lastPrinted < (tty ? 250 : 10_000)) return;
     lastPrinted = now;
     const elapsed = (now - started) / 1000;
-    const eta = (elapsed / done) * (total - done);
-    const text = `calibrate: ${done}/${total} channels (last ${job.regime} n=${job.n} N/n=${job.ratio}), ${elapsed.toFixed(0)} s, about ${eta.toFixed(0)} s left`;
+    const text = `calibrate: ${done}/${total} channels (last ${job.regime} n=${job.n} N/n=${job.ratio}), ${elapsed.toFixed(0)} s`;
     process.stderr.write(tty ? `\r${text}\x1b[K` : `${text}\n`);
   });
   if (tty) process.stderr.write("\n");
-  const seconds = (performance.now() - started) / 1000;
-  if (plan.format === "json") {
-    process.stdout.write(
-      `${JSON.stringify({ header: header(plan, seconds), plan, cells: summaries }, null, 2)}\n`,
-    );
-  } else if (plan.format === "markdown") {
-    process.stdout.write(
-      `${header(plan, seconds)
-        .map((l) => `${l}  `)
-        .join("\n")}\n\n`,
-    );
-    process.stdout.write(`${markdownTable(summaries)}\n`);
-  } else {
-    process.stdout.write(`${header(plan, seconds).join("\n")}\n\n${textTable(summaries)}\n`);
-  }
+  print(plan.format, header(plan, (performance.now() - started) / 1000), summaries);
   return plan.strict && summaries.some((s) => !s.floor.met) ? 1 : 0;
 }
 
