@@ -35,8 +35,8 @@ export interface CalibrationPlan {
   readonly shrinkage: boolean;
   /** Exit 1 when a cell misses the floor. */
   readonly strict: boolean;
-  /** Print a saved `--json` run instead of running. */
-  readonly from: string | null;
+  /** Print saved `--json` runs (merged) instead of running. */
+  readonly from: readonly string[];
 }
 
 export const USAGE = `npm run calibrate -- [options]
@@ -51,7 +51,7 @@ export const USAGE = `npm run calibrate -- [options]
   --markdown       print the table in the format of docs/calibration.md
   --json           print the cells as JSON
   --strict         exit 1 when a cell misses the floor
-  --from FILE      print a saved --json run again (with --markdown: the table of docs/calibration.md)`;
+  --from A[,B…]     print saved --json runs again, merged (with --markdown: the table of docs/calibration.md)`;
 
 function bad(message: string, code: "ARG_BAD_VALUE" | "ARG_UNKNOWN" = "ARG_BAD_VALUE"): never {
   throw new PlumblineError(code, message, {
@@ -96,7 +96,7 @@ export function parsePlan(
   let shrinkage = true;
   let strict = false;
   let help = false;
-  let from: string | null = null;
+  let from: readonly string[] = [];
   for (let k = 0; k < args.length; k++) {
     const flag = args[k];
     const value = () => args[++k];
@@ -137,7 +137,7 @@ export function parsePlan(
       case "--from": {
         const path = value();
         if (path === undefined || path === "") bad("--from needs the path of a saved --json run");
-        from = path;
+        from = path.split(",");
         break;
       }
       case "--help":

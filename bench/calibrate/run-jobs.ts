@@ -31,7 +31,16 @@ export async function runJobs(
   let done = 0;
   await new Promise<void>((resolve, reject) => {
     const children: ChildProcess[] = [];
+    // Stopping the run (Ctrl-C, kill) stops the workers it started.
+    const stop = () => {
+      for (const child of children) child.kill();
+      process.exit(130);
+    };
+    process.once("SIGINT", stop);
+    process.once("SIGTERM", stop);
     const finish = (error?: Error) => {
+      process.off("SIGINT", stop);
+      process.off("SIGTERM", stop);
       for (const child of children) if (child.connected) child.disconnect();
       if (error) reject(error);
       else resolve();

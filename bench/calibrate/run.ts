@@ -4,7 +4,7 @@
  * matrices (true-matrix.ts, simulate-channel.ts), analyses each with the product path
  * (`analyzeSnapshot`, default settings), and prints per cell the coverage, leader, bias and note
  * rates with PASS/MISSED against DESIGN.md §4's floor and whether the goal is met. A progress line
- * goes to stderr. `--from FILE` prints a saved `--json` run again (e.g. as `--markdown`). Exit 0 unless `--strict` and a cell misses the floor (2 on a bad option).
+ * goes to stderr. `--from A.json,B.json` prints saved `--json` runs again, merged (e.g. as `--markdown`). Exit 0 unless `--strict` and a cell misses the floor (2 on a bad option).
  */
 import { execFileSync } from "node:child_process";
 import { readFileSync } from "node:fs";
@@ -12,9 +12,11 @@ import { availableParallelism, cpus, loadavg } from "node:os";
 import { isPlumblineError } from "../../src/domain/errors.js";
 import { DEFAULT_SETTINGS } from "../../src/domain/settings.js";
 import { markdownTable, textTable } from "./format-table.js";
+import { DECAYS } from "./measure-channel.js";
 import { type CalibrationPlan, type OutputFormat, parsePlan, USAGE } from "./plan.js";
 import { runPlan } from "./run-jobs.js";
 import type { CellSummary } from "./summarize-cell.js";
+import { REGIMES } from "./true-matrix.js";
 
 function commit(): string {
   try {
@@ -34,6 +36,15 @@ function header(plan: CalibrationPlan, seconds: number): string[] {
     `product settings: the defaults ${JSON.stringify(DEFAULT_SETTINGS)}, except halfLifeDays 0 in "none" cells and clusters off`,
     `suite: seed ${plan.seed}, channels per cell ${plan.channels ?? "40 (n ≤ 60), 16 (n = 200), 6 (n = 1000)"}`,
   ];
+}
+
+/** Cells of several saved runs in table order: n, N/n, regime, decay. */
+function sortCells(cells: CellSummary[]): CellSummary[] {
+  const regime = (c: CellSummary) => REGIMES.indexOf(c.regime);
+  const decay = (c: CellSummary) => DECAYS.indexOf(c.decay);
+  return [...cells].sort(
+    (a, b) => a.n - b.n || a.ratio - b.ratio || regime(a) - regime(b) || decay(a) - decay(b),
+  );
 }
 
 /** Prints a run (fresh or read back from `--from`) in the plan's format. */
@@ -67,13 +78,18 @@ async function main(): Promise<number> {
     return 0;
   }
   const { plan } = parsed;
-  if (plan.from !== null) {
-    const saved = JSON.parse(readFileSync(plan.from, "utf8")) as {
-      header: string[];
-      cells: CellSummary[];
-    };
-    print(plan.format, saved.header, saved.cells);
-    return plan.strict && saved.cells.some((s) => !s.floor.met) ? 1 : 0;
+  if (plan.from.length > 0) {
+    const saved = plan.from.map(
+      (path) =>
+        JSON.parse(readFileSync(path, "utf8")) as { header: string[]; cells: CellSummary[] },
+    );
+    const lines =
+      saved.length === 1
+        ? saved[0].header
+        : saved.flatMap((run, k) => run.header.map((l) => `part ${k + 1}: ${l}`));
+    const cells = sortCells(saved.flatMap((run) => run.cells));
+    print(plan.format, lines, cells);
+    return plan.strict && cells.some((s) => !s.floor.met) ? 1 : 0;
   }
   const started = performance.now();
   const tty = process.stderr.isTTY;
