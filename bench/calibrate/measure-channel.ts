@@ -31,6 +31,8 @@ export interface ChannelJob {
   readonly decays: readonly Decay[];
   /** Also compute the point estimate at the expected counts (leader regimes only). */
   readonly shrinkage: boolean;
+  /** Settings that replace the product defaults (`--set key=value`), e.g. a prior strength. */
+  readonly overrides?: Readonly<Record<string, number | string | boolean | null>>;
 }
 
 /** What one analysis of one channel showed, against the truth. */
@@ -70,11 +72,15 @@ export function channelSeed(job: Pick<ChannelJob, "regime" | "n" | "ratio" | "in
   return hashString32(`${job.seed}|${job.regime}|${job.n}|${job.ratio}|${job.index}`);
 }
 
-/** The analysis settings of a decay setting: the product defaults, clusters off. */
-export function settingsFor(decay: Decay): AnalysisSettings {
+/** The analysis settings of a decay setting: the product defaults (or overrides), clusters off. */
+export function settingsFor(
+  decay: Decay,
+  overrides: ChannelJob["overrides"] = {},
+): AnalysisSettings {
+  const base = { ...DEFAULT_SETTINGS, ...overrides } as AnalysisSettings;
   return {
-    ...DEFAULT_SETTINGS,
-    halfLifeDays: decay === "none" ? 0 : DEFAULT_SETTINGS.halfLifeDays,
+    ...base,
+    halfLifeDays: decay === "none" ? 0 : base.halfLifeDays,
     // Louvain clusters do not enter any figure read here; leaving them out saves time.
     clusters: false,
   };
@@ -107,10 +113,14 @@ export function measureChannel(job: ChannelJob): ChannelResult[] {
   });
   const expected =
     job.shrinkage && truth.leader !== null
-      ? pointAtExpectedCounts(truth, job.ratio, sim.members, settingsFor("none"))[truth.leader]
+      ? pointAtExpectedCounts(truth, job.ratio, sim.members, settingsFor("none", job.overrides))[
+          truth.leader
+        ]
       : null;
   return job.decays.map((decay) => {
-    const report = analyzeSnapshot(sim.snapshot, settingsFor(decay), { until: sim.until });
+    const report = analyzeSnapshot(sim.snapshot, settingsFor(decay, job.overrides), {
+      until: sim.until,
+    });
     let covered = 0;
     let below = 0;
     let above = 0;

@@ -7,6 +7,7 @@
  * `PlumblineError` with a hint, and the run does not start.
  */
 import { PlumblineError } from "../../src/domain/errors.js";
+import { DEFAULT_SETTINGS } from "../../src/domain/settings.js";
 import { type ChannelJob, DECAYS, type Decay } from "./measure-channel.js";
 import { REGIMES, type Regime } from "./true-matrix.js";
 
@@ -35,6 +36,8 @@ export interface CalibrationPlan {
   readonly shrinkage: boolean;
   /** Exit 1 when a cell misses the floor. */
   readonly strict: boolean;
+  /** Settings replacing the product defaults in every analysis (`--set key=value`). */
+  readonly overrides: Readonly<Record<string, number | string | boolean | null>>;
   /** Print saved `--json` runs (merged) instead of running. */
   readonly from: readonly string[];
 }
@@ -47,6 +50,7 @@ export const USAGE = `npm run calibrate -- [options]
   --channels K     channels per cell (default: 40 up to n = 60, 16 at 200, 6 at 1000)
   --seed S         suite seed, an integer (default 1)
   --workers W      child processes (default: 2, or 1 on a one-core machine)
+  --set KEY=VALUE  replace a product default in every analysis, e.g. --set background=4 (repeatable)
   --no-shrinkage   leave out the point estimate at the expected counts
   --markdown       print the table in the format of docs/calibration.md
   --json           print the cells as JSON
@@ -80,6 +84,14 @@ function choices<T extends string>(flag: string, text: string | undefined, allow
   });
 }
 
+/** A `--set` value: a number, true/false, null, or else the text itself (e.g. "auto"). */
+function parseSettingValue(raw: string): number | string | boolean | null {
+  if (raw === "true" || raw === "false") return raw === "true";
+  if (raw === "null") return null;
+  const value = Number(raw);
+  return raw.trim() !== "" && Number.isFinite(value) ? value : raw;
+}
+
 /** Parses the command line (without `node` and the script). `help` is true for --help. */
 export function parsePlan(
   args: readonly string[],
@@ -97,6 +109,7 @@ export function parsePlan(
   let strict = false;
   let help = false;
   let from: readonly string[] = [];
+  const overrides: Record<string, number | string | boolean | null> = {};
   for (let k = 0; k < args.length; k++) {
     const flag = args[k];
     const value = () => args[++k];
@@ -122,6 +135,17 @@ export function parsePlan(
       case "--workers":
         [workers] = integers(flag, value(), 1);
         break;
+      case "--set": {
+        const text = value() ?? "";
+        const [key, raw] = [text.slice(0, text.indexOf("=")), text.slice(text.indexOf("=") + 1)];
+        if (!text.includes("=") || !(key in DEFAULT_SETTINGS)) {
+          bad(
+            `--set takes KEY=VALUE with KEY one of ${Object.keys(DEFAULT_SETTINGS).join(", ")}; got "${text}"`,
+          );
+        }
+        overrides[key] = parseSettingValue(raw);
+        break;
+      }
       case "--no-shrinkage":
         shrinkage = false;
         break;
@@ -160,6 +184,7 @@ export function parsePlan(
       workers,
       shrinkage,
       strict,
+      overrides,
       from,
     },
     help,
@@ -185,6 +210,7 @@ export function planJobs(plan: CalibrationPlan): ChannelJob[] {
             seed: plan.seed,
             decays: plan.decays,
             shrinkage: plan.shrinkage,
+            overrides: plan.overrides,
           });
         }
       }

@@ -6,9 +6,18 @@
  */
 import { type ChildProcess, fork } from "node:child_process";
 import { fileURLToPath } from "node:url";
+import { type ErrorCode, PlumblineError } from "../../src/domain/errors.js";
 import { type ChannelJob, type ChannelResult, measureChannel } from "./measure-channel.js";
 import { type CalibrationPlan, cellKey, planCells, planJobs } from "./plan.js";
 import { type CellSummary, summarizeCell } from "./summarize-cell.js";
+
+/** What a worker sends back: the job's results, or its error (a coded one rebuilt as such). */
+interface WorkerMessage {
+  readonly k: number;
+  readonly result?: ChannelResult[];
+  readonly error?: string;
+  readonly coded?: { code: ErrorCode; message: string; hint: string };
+}
 
 export type Progress = (done: number, total: number, job: ChannelJob) => void;
 
@@ -56,7 +65,12 @@ export async function runJobs(
     for (let w = 0; w < Math.min(workers, jobs.length); w++) {
       const child = fork(script, [], { execArgv: process.execArgv, stdio: "inherit" });
       children.push(child);
-      child.on("message", (message: { k: number; result?: ChannelResult[]; error?: string }) => {
+      child.on("message", (message: WorkerMessage) => {
+        if (message.coded !== undefined) {
+          const { code, message: text, hint } = message.coded;
+          finish(new PlumblineError(code, text, { hint }));
+          return;
+        }
         if (message.error !== undefined) {
           finish(new Error(`job ${message.k} failed: ${message.error}`));
           return;

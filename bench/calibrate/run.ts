@@ -33,7 +33,7 @@ function commit(): string {
 function header(plan: CalibrationPlan, seconds: number): string[] {
   return [
     `date ${new Date().toISOString().slice(0, 10)}, commit ${commit()}, node ${process.version}, ${cpus().length} × ${cpus()[0]?.model ?? "cpu"}, load ${loadavg()[0].toFixed(2)}, ${plan.workers} worker(s), ${seconds.toFixed(0)} s`,
-    `product settings: the defaults ${JSON.stringify(DEFAULT_SETTINGS)}, except halfLifeDays 0 in "none" cells and clusters off`,
+    `product settings: the defaults ${JSON.stringify(DEFAULT_SETTINGS)}${Object.keys(plan.overrides).length > 0 ? `, with ${JSON.stringify(plan.overrides)}` : ""}, except halfLifeDays 0 in "none" cells and clusters off`,
     `suite: seed ${plan.seed}, channels per cell ${plan.channels ?? "40 (n ≤ 60), 16 (n = 200), 6 (n = 1000)"}`,
   ];
 }
@@ -112,6 +112,13 @@ main().then(
     process.exitCode = code;
   },
   (error: unknown) => {
+    if (isPlumblineError(error)) {
+      // A setting the product refuses (e.g. --set background=-1): one line with its code (the
+      // product's messages already name the fix).
+      process.stderr.write(`${error.code}: ${error.message}\n`);
+      process.exitCode = 2;
+      return;
+    }
     process.stderr.write(`${error instanceof Error ? error.stack : String(error)}\n`);
     process.exitCode = 1;
   },
