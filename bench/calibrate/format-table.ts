@@ -61,7 +61,16 @@ function cells(s: CellSummary): string[] {
 export function totalsLine(summaries: readonly CellSummary[]): string {
   const floor = summaries.filter((s) => s.floor.met).length;
   const goal = summaries.filter((s) => s.goal).length;
-  return `calibrate: ${floor} of ${summaries.length} cells meet the floor, ${goal} reach the goal`;
+  const misses = new Map<string, number>();
+  for (const s of summaries) {
+    for (const item of s.floor.missed) misses.set(item, (misses.get(item) ?? 0) + 1);
+  }
+  const order = ["coverage", "leader", "false notes", "notes", "bias"];
+  const byItem = [...misses]
+    .sort((a, b) => order.indexOf(a[0]) - order.indexOf(b[0]))
+    .map(([item, count]) => `${item} ${count}`)
+    .join(", ");
+  return `calibrate: ${floor} of ${summaries.length} cells meet the floor, ${goal} reach the goal${byItem ? ` (cells missing: ${byItem})` : ""}`;
 }
 
 export const LEGEND = [

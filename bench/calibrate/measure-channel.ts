@@ -63,8 +63,6 @@ export interface ChannelResult {
   /** Largest true share. */
   readonly trueTop: number;
   readonly crossed: boolean;
-  /** The crossing member is the true top. */
-  readonly crossedTrueTop: boolean;
 }
 
 /** Seed of one channel: the same for both decay settings. */
@@ -103,14 +101,7 @@ export function measureChannel(job: ChannelJob): ChannelResult[] {
   sim.members.forEach((member, i) => {
     index.set(member, i);
   });
-  let trueTop = 0;
-  let trueTopIndex = 0;
-  truth.shares.forEach((s, i) => {
-    if (s > trueTop) {
-      trueTop = s;
-      trueTopIndex = i;
-    }
-  });
+  const trueTop = truth.shares.reduce((top, s) => Math.max(top, s), 0);
   const expected =
     job.shrinkage && truth.leader !== null
       ? pointAtExpectedCounts(truth, job.ratio, sim.members, settingsFor("none", job.overrides))[
@@ -158,7 +149,6 @@ export function measureChannel(job: ChannelJob): ChannelResult[] {
       line: reportLine,
       trueTop,
       crossed: report.line?.crossed ?? false,
-      crossedTrueTop: report.line?.member === sim.members[trueTopIndex],
     };
   });
 }

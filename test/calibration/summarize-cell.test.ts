@@ -37,7 +37,6 @@ function channels(
       line: 0.3,
       trueTop: options.trueTop ?? 0.2,
       crossed: options.crossed?.(k) ?? false,
-      crossedTrueTop: false,
     };
   });
 }
