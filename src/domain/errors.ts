@@ -28,6 +28,7 @@ export type ErrorCode =
   | "STORE_TLS"
   | "STORE_TOO_LARGE"
   | "STORE_REJECTED"
+  | "STORE_BAD_DATA"
   | "CONFIG_INVALID";
 
 export class PlumblineError extends Error {

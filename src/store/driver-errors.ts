@@ -55,6 +55,16 @@ export function mapDriverError(error: unknown): unknown {
       },
     );
   }
+  if (/^22[0-9A-Z]{3}$/.test(code)) {
+    return new PlumblineError(
+      "STORE_BAD_DATA",
+      `the database refused a value of the event (SQLSTATE ${code}: ${message})`,
+      {
+        hint: "nothing to do for this event: it is recorded as rejected and ingestion goes on; check the adapter that produced it",
+        cause: error,
+      },
+    );
+  }
   if (
     /does not support SSL|SSL connection|self[- ]signed|certificate/i.test(message) ||
     TLS_CODES.has(code)
