@@ -19,6 +19,7 @@ import { join } from "node:path";
 import Database from "better-sqlite3";
 import { afterAll, describe, expect, it } from "vitest";
 import { main } from "../../adapters/local/cli.js";
+import { serve } from "../../adapters/serve.js";
 import type { ChatEvent } from "../../src/domain/events.js";
 import { leave } from "../../src/ingest/erase.js";
 import { type Delivery, ingest, ingestBatch } from "../../src/ingest/ingest.js";
@@ -145,6 +146,33 @@ describe("SQLite key file", () => {
     const old = io({ PLUMBLINE_ID_KEY: oldKey.trim() });
     expect(await main(["ingest", log, "--db", "sqlite:./r.db"], old.io)).toBe(2);
     expect(old.err.join("")).toContain("[STORE_KEY_MISMATCH]");
+  });
+});
+
+describe("serve and the id key", () => {
+  it("serve refuses to start with a key other than the store's, naming the variable", async () => {
+    const db = join(dir, "serve.db");
+    const store = await openSqliteStore(db, { idKey: TEST_KEY });
+    await ingest(store, consent("U1"), "k1");
+    await store.close();
+    const env = {
+      DATABASE_URL: `sqlite:${db}`,
+      HOST: "127.0.0.1",
+      PORT: "0",
+      PLUMBLINE_TEAMS_DEV_NO_AUTH: "1",
+    };
+    await expect(
+      serve({ env: { ...env, PLUMBLINE_ID_KEY: `${TEST_KEY}-other` }, schedule: false }),
+    ).rejects.toMatchObject({
+      code: "STORE_KEY_MISMATCH",
+      message: expect.stringContaining("PLUMBLINE_ID_KEY"),
+    });
+    // Without any key the store's own key file is missing: refused, nothing generated.
+    await expect(serve({ env, schedule: false })).rejects.toMatchObject({
+      code: "STORE_NO_ID_KEY",
+      hint: expect.stringContaining(`restore the key file ${db}.key`),
+    });
+    expect(existsSync(`${db}.key`)).toBe(false);
   });
 });
 
