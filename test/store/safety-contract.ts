@@ -5,7 +5,9 @@
  * array-parameter queries under a 2,000-mention message, rejected events, erasure of every
  * table, and the report-link secret shared through the store. Each check states its reference.
  */
+import { spawn } from "node:child_process";
 import { createHmac } from "node:crypto";
+import { createInterface } from "node:readline";
 import { describe, expect, it } from "vitest";
 import { analyzeSnapshot } from "../../src/analysis/analyze-snapshot.js";
 import { ChannelLedger } from "../../src/attention/channel-ledger.js";
@@ -23,6 +25,8 @@ import { TEST_KEY } from "./test-key.js";
 
 /** One database, opened as often as a test likes. */
 export interface SafetyTarget {
+  /** Arguments for rekey-child.ts naming this database. */
+  readonly childArgs: readonly string[];
   /** Opens the same database with these options (key options included). */
   open(options: OpenStoreOptions): Promise<Store>;
   /** Every row of every table, as text (the raw dump an attacker with the database would read). */
@@ -31,6 +35,7 @@ export interface SafetyTarget {
 }
 
 const T0 = Date.UTC(2026, 10, 2, 9, 0, 0);
+const CHILD = new URL("./rekey-child.ts", import.meta.url).pathname;
 const NEW_SECRET = "new-secret-fedcba9876543210fedcba9876543210";
 
 /** RFC 2104 HMAC-SHA256 straight from node:crypto, truncated to 128 bits as member-key.ts says. */
@@ -163,6 +168,37 @@ export function safetyContract(name: string, makeTarget: () => Promise<SafetyTar
         await expect(target.open({ idKey: `${TEST_KEY}\n${NEW_SECRET}` })).rejects.toMatchObject({
           code: "STORE_KEY_MISMATCH",
         });
+        const reopened = await target.open({ idKey: TEST_KEY });
+        expect(await reopened.loadSnapshot("c1")).toEqual(before);
+        await reopened.close();
+        expect(await target.dump()).toBe(dumpBefore);
+      } finally {
+        await target.cleanup();
+      }
+    });
+
+    it("a rekey whose process is SIGKILLed mid-transaction leaves the old key valid", {
+      timeout: 60_000,
+    }, async () => {
+      const target = await makeTarget();
+      try {
+        const deliveries = randomDeliveries({ seed: 23, count: 200, channels: ["c1"] });
+        const store = await target.open({ idKey: TEST_KEY });
+        await ingestBatch(store, deliveries, { receivedAt: T0 });
+        const before = await store.loadSnapshot("c1");
+        await store.close();
+        const dumpBefore = await target.dump();
+        const child = spawn(process.execPath, ["--import", "tsx", CHILD, ...target.childArgs], {
+          stdio: ["ignore", "pipe", "inherit"],
+        });
+        const outcome = await new Promise<string>((resolve, reject) => {
+          createInterface({ input: child.stdout }).on("line", (line) => {
+            if (line === "half") child.kill("SIGKILL");
+          });
+          child.on("error", reject);
+          child.on("close", (_code, signal) => resolve(String(signal)));
+        });
+        expect(outcome).toBe("SIGKILL");
         const reopened = await target.open({ idKey: TEST_KEY });
         expect(await reopened.loadSnapshot("c1")).toEqual(before);
         await reopened.close();

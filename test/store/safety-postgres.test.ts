@@ -63,6 +63,7 @@ describe.skipIf(!run)("PostgreSQL store safety", () => {
   safetyContract("postgres", async () => {
     const schema = freshSchema();
     return {
+      childArgs: ["postgres", PG_URL, schema],
       open: (options) => openStore(PG_URL, { ...options, schema, createSchema: true }),
       dump: () => dumpSchema(schema),
       cleanup: () => dropSchema(schema),

@@ -49,6 +49,7 @@ function dumpFile(path: string): string {
 safetyContract("sqlite file", async () => {
   const path = join(dir, `safety-${n++}.db`);
   return {
+    childArgs: ["sqlite", path],
     open: (options) => openSqliteStore(path, options),
     dump: async () => dumpFile(path),
     cleanup: async () => undefined,
