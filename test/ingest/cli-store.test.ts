@@ -58,7 +58,7 @@ describe("plumbline ingest / migrate / purge", () => {
     const m1 = io(env);
     expect(await main(["migrate"], m1.io)).toBe(0);
     expect(m1.out.join("")).toBe(
-      `sqlite:./db/maint.db: schema at version ${LATEST_SCHEMA_VERSION} (1 migration applied)\n`,
+      `sqlite:./db/maint.db: schema at version ${LATEST_SCHEMA_VERSION} (${LATEST_SCHEMA_VERSION} migrations applied)\n`,
     );
     const m2 = io(env);
     expect(await main(["migrate"], m2.io)).toBe(0);

@@ -53,9 +53,11 @@ describe("SQLite store", () => {
     const second = await openStore(url, { cwd: dir });
     expect(second.memberKey("U1")).toBe(key);
     await second.close();
-    const other = await openStore(url, { cwd: dir, idKey: `${TEST_KEY}-other` });
-    expect(other.memberKey("U1")).not.toBe(key);
-    await other.close();
+    // DESIGN.md §7: a different key is refused, naming where it came from and what to restore.
+    await expect(openStore(url, { cwd: dir, idKey: `${TEST_KEY}-other` })).rejects.toMatchObject({
+      code: "STORE_KEY_MISMATCH",
+      message: expect.stringContaining("PLUMBLINE_ID_KEY"),
+    });
   });
 
   it("migrates once, records the version, and refuses a database newer than the code", async () => {
