@@ -12,7 +12,7 @@ import type { Logger } from "../../src/ports/logger.js";
 import type { Bot } from "../create-bot.js";
 import { coreChannelId, isSlackId } from "./channel-ids.js";
 import { errorCode } from "./guarded-receiver.js";
-import { isRecord, mapMessage } from "./map-message.js";
+import { isRecord, MAX_BLOCK_DEPTH, mapMessage } from "./map-message.js";
 import type { MemberDirectory } from "./member-directory.js";
 import { renderBlockKit } from "./render-block-kit.js";
 
@@ -70,6 +70,12 @@ export function registerListeners(app: App, deps: ListenerDeps): void {
     if (mapped.kind === "ignored") {
       logger.debug({ event: body.event_id, reason: mapped.reason }, "slack message not counted");
       return;
+    }
+    if (mapped.blocksTooDeep) {
+      logger.warn(
+        { event: body.event_id, maxDepth: MAX_BLOCK_DEPTH },
+        "slack blocks nest too deep; mentions read from the text",
+      );
     }
     const bot = requireBot(deps);
     await ensureChannel(bot, mapped.event.channel, body.team_id);

@@ -156,6 +156,31 @@ describe("bad input", () => {
     expect(reply).toBe(405);
   });
 
+  it("counts a message whose blocks nest 254,000 arrays deep (a 508 KB body) from its text, never 500", async () => {
+    const depth = 254_000;
+    const base = fixture("message.json");
+    const event = base.event as Record<string, unknown>;
+    const deep = `${"[".repeat(depth)}${"]".repeat(depth)}`;
+    const blocks = `[{"type":"rich_text","block_id":"b1","elements":${deep}}]`;
+    const envelope = JSON.stringify({
+      ...base,
+      event_id: "Ev0DEEP00001",
+      event: { ...event, blocks: "@@" },
+    });
+    const body = envelope.replace('"@@"', blocks);
+    expect(body.length).toBeGreaterThan(508_000);
+    expect(body.length).toBeLessThan(MAX_BODY_BYTES);
+    const reply = await post(h.port, body, signedHeaders(body, h.clock.now()));
+    expect(reply.status).toBe(200);
+    const messages = (await h.store.loadSnapshot(CHANNEL)).messages;
+    expect(messages.map((m) => [m.id, m.mentions])).toEqual([[event.ts, ["U0BO"]]]);
+    expect(
+      h.logger.records.some(
+        (r) => r.message === "slack blocks nest too deep; mentions read from the text",
+      ),
+    ).toBe(true);
+  });
+
   it("accepts a timestamp 4 minutes off, so the window is 5 minutes and not less", async () => {
     const body = JSON.stringify({ ...fixture("message.json"), event_id: "Ev0SKEW00001" });
     const reply = await post(h.port, body, signedHeaders(body, h.clock.now() + 4 * MINUTE));
