@@ -37,6 +37,13 @@ export function deliveryKey(eventId: string): string {
   return `slack:${eventId}`;
 }
 
+/** The command's `trigger_id` as the request id of its delivery keys, when it has a sane shape. */
+function requestIdOf(triggerId: unknown): { requestId?: string } {
+  return typeof triggerId === "string" && /^[\w.-]{1,128}$/.test(triggerId)
+    ? { requestId: `slack:${triggerId}` }
+    : {};
+}
+
 function requireBot(deps: ListenerDeps): Bot {
   const bot = deps.bot();
   if (bot === null) throw new Error("slack adapter not started");
@@ -142,6 +149,7 @@ export function registerListeners(app: App, deps: ListenerDeps): void {
         text: command.text ?? "",
         isPlatformAdmin,
         inThread: false,
+        ...requestIdOf(raw.trigger_id),
       });
       await respond({
         response_type: answer.visibility === "channel" ? "in_channel" : "ephemeral",
