@@ -6,7 +6,8 @@
  * the body itself: over 1 MB → 413, not JSON → 400, not an object with a string `type` → 400.
  * The request is then authenticated apart from the turn: any failure there (a bad token, or keys
  * that cannot be fetched) is 401 with an empty body and one rate-limited log line naming the
- * error's class, never the SDK's message (which held a fetch error). An error in the turn itself
+ * error's class, never the SDK's message (which held a fetch error). An authenticated activity
+ * with an id that is not printable ASCII (`malformedIdField`) gets 400. An error in the turn itself
  * answers 500, so Teams redelivers, while the process keeps serving. Whatever the SDK prints to
  * the console meanwhile goes to the log as one short debug line (`sdk-console.ts`).
  */
@@ -15,6 +16,7 @@ import type { Activity, CloudAdapter, TurnContext } from "botbuilder";
 import type { Logger } from "../../src/ports/logger.js";
 import type { HttpRoute } from "../platform-adapter.js";
 import { type RateLimitedLog, rateLimitedLog } from "../rate-limited-log.js";
+import { malformedIdField } from "./activity-fields.js";
 import { withSdkConsole } from "./sdk-console.js";
 
 export const MESSAGES_PATH = "/api/messages";
@@ -149,6 +151,12 @@ export function messagesRoute(options: MessagesRouteOptions): HttpRoute {
           );
           response.writeHead(401);
           response.end();
+          return;
+        }
+        const malformed = malformedIdField(fixed);
+        if (malformed !== null) {
+          refusals("warn", { status: 400, field: malformed }, "teams activity with a malformed id");
+          answer(response, 400, `malformed ${malformed}`);
           return;
         }
         try {

@@ -29,6 +29,7 @@ afterAll(async () => {
 });
 
 const message = () => JSON.stringify(fixture("message.json"));
+const FORM = "application/x-www-form-urlencoded";
 const MINUTE = 60_000;
 
 interface Case {
@@ -112,6 +113,44 @@ const cases: Case[] = [
     },
   },
   {
+    name: "slash command whose channel id holds NUL (C\\0Z)",
+    status: 400,
+    send: () => {
+      const body = fixtureText("slash-command.txt").replace(
+        "channel_id=C0GENERAL",
+        "channel_id=C%00Z",
+      );
+      return post(h.port, body, signedHeaders(body, h.clock.now(), FORM));
+    },
+  },
+  {
+    name: "slash command whose team id holds ESC [ 2 J",
+    status: 400,
+    send: () => {
+      const body = fixtureText("slash-command.txt").replace(
+        "team_id=T0PLUMB",
+        "team_id=T0%1B%5B2J",
+      );
+      return post(h.port, body, signedHeaders(body, h.clock.now(), FORM));
+    },
+  },
+  {
+    name: "slash command whose user id is lower case",
+    status: 400,
+    send: () => {
+      const body = fixtureText("slash-command.txt").replace("user_id=U0ANA", "user_id=u0ana");
+      return post(h.port, body, signedHeaders(body, h.clock.now(), FORM));
+    },
+  },
+  {
+    name: "event envelope whose team id holds NUL",
+    status: 400,
+    send: () => {
+      const body = JSON.stringify({ ...fixture("message.json"), team_id: "T0\u0000PLUMB" });
+      return post(h.port, body, signedHeaders(body, h.clock.now()));
+    },
+  },
+  {
     name: "unknown event type",
     status: 200,
     send: () => {
@@ -127,6 +166,7 @@ describe("bad input", () => {
       const reply = await c.send();
       expect(reply.status).toBe(c.status);
       expect((await h.store.loadSnapshot(CHANNEL)).messages).toEqual([]);
+      expect((await h.store.listChannels()).map((c) => c.channel)).toEqual([CHANNEL]);
       // The server still answers a good request afterwards (nothing is stored from it either:
       // url_verification only echoes its challenge).
       const ping = JSON.stringify(fixture("url-verification.json"));
