@@ -13,6 +13,7 @@ import type { IncomingMessage, ServerResponse } from "node:http";
 import type { App, Receiver } from "@slack/bolt";
 import type { Logger } from "../../src/ports/logger.js";
 import type { HttpRoute } from "../platform-adapter.js";
+import { type RateLimitedLog, rateLimitedLog } from "../rate-limited-log.js";
 import { isSlackId } from "./channel-ids.js";
 import { isRecord } from "./map-message.js";
 import { type GuardOptions, guardRequest } from "./request-guard.js";
@@ -70,9 +71,12 @@ function envelopeProblem(body: Record<string, unknown>): string | null {
 export class GuardedReceiver implements Receiver {
   private app: App | null = null;
   readonly route: HttpRoute;
+  /** Refusals are logged one line each, at most 10 a minute (anyone can send them). */
+  private readonly refusals: RateLimitedLog;
 
   constructor(private readonly options: GuardedReceiverOptions) {
     this.route = { path: SLACK_EVENTS_PATH, handle: (req, res) => this.handle(req, res) };
+    this.refusals = rateLimitedLog({ logger: options.logger, now: options.now });
   }
 
   init(app: App): void {
@@ -92,7 +96,11 @@ export class GuardedReceiver implements Receiver {
     }
     const outcome = await guardRequest(request, this.options);
     if (!outcome.ok) {
-      logger.warn({ status: outcome.status, reason: outcome.reason }, "slack request refused");
+      this.refusals(
+        "warn",
+        { status: outcome.status, reason: outcome.reason },
+        "slack request refused",
+      );
       const close: Record<string, string> = outcome.status === 413 ? { connection: "close" } : {};
       send(response, outcome.status, { ok: false, error: outcome.reason }, close);
       return;

@@ -227,4 +227,23 @@ describe("bad input", () => {
     expect(reply.status).toBe(200);
     expect((await h.store.loadSnapshot(CHANNEL)).messages).toHaveLength(1);
   });
+
+  it("logs refusals one line each, at most 10 a minute, then says how many were left out", async () => {
+    h.clock.advance(61_000);
+    const before = h.logger.records.length;
+    for (let k = 0; k < 100; k++) {
+      const headers = signedHeaders(message(), h.clock.now());
+      headers["x-slack-signature"] = `v0=${"0".repeat(64)}`;
+      expect((await post(h.port, message(), headers)).status).toBe(401);
+    }
+    const refused = h.logger.records
+      .slice(before)
+      .filter((r) => r.message === "slack request refused");
+    expect(refused).toHaveLength(10);
+    h.clock.advance(61_000);
+    const headers = signedHeaders(message(), h.clock.now());
+    headers["x-slack-signature"] = `v0=${"0".repeat(64)}`;
+    expect((await post(h.port, message(), headers)).status).toBe(401);
+    expect(h.logger.records.at(-1)?.fields).toMatchObject({ status: 401, suppressed: 90 });
+  });
 });

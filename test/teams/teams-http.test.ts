@@ -193,6 +193,20 @@ describe("Teams adapter over HTTP (authentication off, real CloudAdapter)", () =
     expect((await h.store.listChannels()).map((c) => c.channel)).toEqual([CHANNEL]);
   });
 
+  it("records a command activity delivered to two replicas once, by its activity id", async () => {
+    expect((await h.post(fixture("conversation-update-add.json"))).status).toBe(200);
+    const at = Date.parse("2026-11-01T09:00:00Z");
+    // The replica 2 s ahead takes it first; the one behind sees no consent yet at its own time.
+    for (const now of [at + 2_000, at]) {
+      h.clock.set(now);
+      expect((await h.post(commandFrom("dan", "join", "0999"))).status).toBe(200);
+    }
+    const dan = (await snapshot()).consent.filter(
+      (c) => c.member.startsWith("~") || c.member === "aad-dan",
+    );
+    expect(dan).toEqual([expect.objectContaining({ level: "counted", at: at + 2_000 })]);
+  });
+
   it("refuses activities whose ids hold NUL, escape sequences or spaces with 400, storing nothing", async () => {
     const base = fixture("channel-message.json");
     const conversation = base.conversation as Record<string, unknown>;
