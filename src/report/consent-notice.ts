@@ -18,10 +18,13 @@ export const CONSENT_NOTICE = [
   "What the figures are: a rough proxy for who pays attention to whom, not a measure of anyone's worth or work. They must never be used for performance reviews or any HR decision.",
 ] as const;
 
-/** The notice as neutral blocks, headed with its version. */
-export function consentNoticeBlocks(): Block[] {
+/**
+ * The notice as neutral blocks, with its version. `title` is its heading: the notice is shown in
+ * the answer to `join`, after the join is recorded, so the caller says what has just happened.
+ */
+export function consentNoticeBlocks(title = "What plumbline counts"): Block[] {
   return [
-    { kind: "heading", text: "Before you join: what plumbline counts" },
+    { kind: "heading", text: title },
     ...CONSENT_NOTICE.map((text): Block => ({ kind: "note", text })),
     { kind: "note", text: `(Consent notice version ${CONSENT_NOTICE_VERSION}.)` },
   ];
