@@ -73,7 +73,7 @@ export function structureText(report: AnalysisReport): string {
   const c = report.consensus;
   if (!c) return "not known";
   if (c.closedGroups > 1) {
-    return `${c.closedGroups} groups only answer among themselves, so there is no single shared view`;
+    return `${c.closedGroups} groups only answer among themselves${report.status === "ok" ? "" : ", so there is no single shared view"}`;
   }
   if (!c.reached) return "views keep going round without coming together";
   return "everyone is connected in one conversation";

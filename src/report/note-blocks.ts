@@ -69,7 +69,7 @@ export function noteBlocks(args: NoteArgs): Block[] {
       kind: "note",
       text: line
         ? `No member is clearly above this channel's line of ${percent(line.threshold)} right now.`
-        : "There are no figures for this window, so there is no note to give.",
+        : "There are no figures for these days, so there is no note to give.",
     });
     blocks.push({ kind: "cautions", text: CAUTIONS_LINE });
     return blocks;

@@ -69,9 +69,12 @@ export function plainReading(report: AnalysisReport): string {
     default:
       text = `Attention funnels into few voices: the channel's shared view is worth only ${voices}, and ${below}.`;
   }
+  const c = report.consensus;
   const settle =
-    report.consensus && !report.consensus.reached
-      ? " Some views may never come together on this pattern."
-      : "";
+    c && c.closedGroups > 1
+      ? ` But the channel splits into ${c.closedGroups} groups that only answer among themselves, so their views need not come together.`
+      : c && !c.reached
+        ? " Some views may never come together on this pattern."
+        : "";
   return text + settle;
 }

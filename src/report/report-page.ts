@@ -21,6 +21,7 @@ import { shareBarsChart } from "./charts/share-bars-chart.js";
 import { escapeXml } from "./charts/svg.js";
 import type { WeeklyPoint } from "./charts/weekly-series.js";
 import { compareBlocks } from "./compare-blocks.js";
+import { RANK_LABELS } from "./digest-blocks.js";
 import { explainBlocks } from "./explain-blocks.js";
 import { decimal1, percent } from "./format.js";
 import { type NamingPolicy, sharedRanks } from "./naming.js";
@@ -44,6 +45,19 @@ export interface ReportPageInput {
   readonly generatedAt: number;
   /** A line saying who the page is for, e.g. "Shown only to you …". */
   readonly audience?: string;
+}
+
+/** Every word of some blocks, to see whether they show a "member k" label. */
+function blocksText(blocks: readonly Block[]): string {
+  return blocks
+    .map((b) =>
+      b.kind === "figures"
+        ? b.rows.map((r) => `${r.label} ${r.value} ${r.detail ?? ""}`).join("\n")
+        : b.kind === "bars"
+          ? b.rows.map((r) => r.label).join("\n")
+          : b.text,
+    )
+    .join("\n");
 }
 
 function figure(svg: string | null, caption: string): string {
@@ -136,7 +150,7 @@ export function reportPage(input: ReportPageInput): string {
   const summary: Block[] = summaryBlocks(report, policy).filter((b) => b.kind !== "heading");
   const shares = figure(
     shareBarsChart(report, policy),
-    `Bars: influence share. Whiskers: the ${Math.round(report.settings.interval * 100)}% interval. Dashed: the line.`,
+    `Bars: influence share. Whiskers: the ${Math.round(report.settings.interval * 100)}% interval. Dashed: the line.${/\bmember \d+\b/.test(blocksText(summary)) ? ` ${RANK_LABELS}.` : ""}`,
   );
   const map =
     input.attention && report.influence
