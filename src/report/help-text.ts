@@ -57,7 +57,7 @@ export const HELP_ENTRIES: readonly HelpEntry[] = [
   {
     usage: "compare [A B]",
     summary:
-      "compare two periods, e.g. compare 2026-10-01..2026-10-28 2026-11-01..2026-11-28 (default: this window and the one before)",
+      "compare two periods, e.g. compare 2026-10-01..2026-10-28 2026-11-01..2026-11-28 (default: the last 28 days, or the channel's own number, against the same number of days before)",
     facilitatorsOnly: false,
   },
   {

@@ -73,7 +73,7 @@ export function meBlocks(args: MeArgs): Block[] {
       kind: "note",
       text:
         report.status === "ok"
-          ? `You are opted in as ${consentWords(consent)}, but you had no replies or mentions to or from other opted-in members in this window, so you have no share yet.`
+          ? `You are opted in as ${consentWords(consent)}, but you had no replies or mentions to or from other opted-in members in these days, so you have no share yet.`
           : `You are opted in as ${consentWords(consent)}. ${plainReading(report)}`,
     });
     return blocks;
@@ -154,7 +154,7 @@ export function settingsRows(settings: ChannelSettings): FigureRow[] {
       value: settings.halfLifeDays === 0 ? "0" : `${settings.halfLifeDays} days`,
       detail:
         settings.halfLifeDays === 0
-          ? "no decay: every day in the window counts the same"
+          ? "no fading: every counted day counts the same"
           : "a reply or mention this old counts half as much as one from today",
     },
     { label: "digest", value: digest, detail: "the weekly balance digest" },
