@@ -110,9 +110,6 @@ export async function compare(
     throw new PlumblineError(
       "ARG_BAD_VALUE",
       `compare takes two periods, or none; you gave ${args.length === 1 ? "one" : args.length}. ${commandUsage("compare")}`,
-      {
-        hint: "write /influence compare 2026-10-01..2026-10-28 2026-11-01..2026-11-28, or just /influence compare for the last days against the same number of days before",
-      },
     );
   }
   const snapshot = await deps.store.loadSnapshot(context.channel);

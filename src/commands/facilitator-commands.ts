@@ -77,7 +77,9 @@ export async function set(
   const after = { ...before, ...parseSetting(key, args.slice(1)) };
   const row = (settings: typeof before) => settingsRows(settings).find((r) => r.label === key);
   if (JSON.stringify(after) === JSON.stringify(before)) {
-    return respondNotes(`${key} is already ${row(before)?.value}. Nothing was changed.`);
+    return respondNotes(
+      `The setting ${key} is already ${row(before)?.value}. Nothing was changed.`,
+    );
   }
   await writeChannelSettings(deps.store, context.channel, after);
   return respondNotes(

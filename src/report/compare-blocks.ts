@@ -92,13 +92,17 @@ export function compareBlocks(result: CompareReport): Block[] {
   return blocks;
 }
 
+/** A cap within 2% of the smallest possible one leaves as good as no room: our reading aid. */
+const FORCED_SLACK = 0.02;
+
 /**
  * True when the cap leaves no choice: with n members each one can give at most `cap` to any one of
- * the n − 1 others (a lower cap is refused as infeasible), so a cap of exactly 1/(n − 1) forces everyone to spread their attention evenly, and
- * every share is then 1/n whatever was counted (the even chain's stationary vector is uniform).
+ * the n − 1 others (a lower cap is refused as infeasible), so a cap of 1/(n − 1), or barely more,
+ * forces everyone to spread their attention (almost) evenly, and every share is then about 1/n
+ * whatever was counted (the even chain's stationary vector is uniform).
  */
 export function capForcesEven(cap: number, members: number): boolean {
-  return members >= 2 && Math.abs(cap * (members - 1) - 1) <= 1e-9;
+  return members >= 2 && cap * (members - 1) <= 1 + FORCED_SLACK;
 }
 
 export function whatIfBlocks(result: WhatIfReport): Block[] {
@@ -131,7 +135,7 @@ export function whatIfBlocks(result: WhatIfReport): Block[] {
   if (after && capForcesEven(result.cap, n)) {
     blocks.push({
       kind: "note",
-      text: `Why the capped figures have no spread: with ${n} active members, each member has ${n - 1} others to turn to, and ${n - 1} × ${percent(result.cap)} is already 100%: no room is left to favour anyone, so a cap of ${percent(result.cap)} makes everyone spread their attention evenly. Every share is then ${percent(1 / n)}, whatever was counted. Try a larger cap to see a habit that still leaves room for preferences.`,
+      text: `Why the capped figures have no spread: with ${n} active members, each member has ${n - 1} others to turn to, and ${n - 1} × ${percent(result.cap)} is ${result.cap * (n - 1) <= 1 + 1e-9 ? "already 100%" : "barely more than 100%"}: no room is left to favour anyone, so a cap of ${percent(result.cap)} makes everyone spread their attention evenly. Every share is then about ${percent(1 / n)}, whatever was counted. Try a larger cap to see a habit that still leaves room for preferences.`,
     });
   }
   blocks.push({ kind: "cautions", text: CAUTIONS_LINE });

@@ -224,7 +224,7 @@ export function statusBlocks(args: StatusArgs): Block[] {
     { label: "Counting period", value: windowText(report) },
     {
       label: "In that period",
-      value: `${report.members} active members, ${report.signals} replies and mentions`,
+      value: `${report.members} active member${report.members === 1 ? "" : "s"}, ${report.signals} ${report.signals === 1 ? "reply or mention" : "replies and mentions"}`,
     },
     {
       label: "Figures",

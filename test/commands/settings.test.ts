@@ -58,7 +58,7 @@ describe("set: accepted values", () => {
       "Set threshold to 40% (was auto)",
     );
     const again = (await r.run("UBOSS", "set threshold 0.4")).message.text.trim();
-    expect(again).toBe("threshold is already 40%. Nothing was changed.");
+    expect(again).toBe("The setting threshold is already 40%. Nothing was changed.");
   });
 });
 

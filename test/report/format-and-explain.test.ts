@@ -94,12 +94,13 @@ describe("whatif cap", () => {
     const text = renderText(whatIfBlocks(result));
     expect(text).toContain("Why the capped figures have no spread: with 6 active members");
     expect(text).toContain("5 × 20% is already 100%");
-    expect(text).toContain("Every share is then 17%");
+    expect(text).toContain("Every share is then about 17%");
     const wider = renderText(
       whatIfBlocks(whatIfCap(snapshotOf(mentionEvents(pairs)), settings, { cap: 0.3 })),
     );
     expect(wider).not.toContain("Why the capped figures have no spread");
     expect(capForcesEven(0.25, 5)).toBe(true);
+    expect(capForcesEven(0.0834, 13)).toBe(true); // 12 × 8.34% = 100.08%
     expect(capForcesEven(0.25, 6)).toBe(false);
   });
 });
