@@ -80,7 +80,7 @@ export async function runCompare(argv: readonly string[], io: CliIo): Promise<nu
   } else {
     throw new PlumblineError(
       "ARG_MISSING",
-      "give both --a and --b, or neither (this window against the one before)",
+      "give both --a and --b, or neither (the last --window days against the same number of days before)",
       { hint: `usage: ${usage}` },
     );
   }
