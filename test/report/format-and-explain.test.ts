@@ -19,6 +19,7 @@ import {
 } from "../../src/report/explain-blocks.js";
 import { changeText, printedChange, probability } from "../../src/report/format.js";
 import { renderText } from "../../src/report/render-text.js";
+import { reportPage } from "../../src/report/report-page.js";
 import { makeReport } from "../policy/report-builders.js";
 import { mentionEvents, mutualPairs, snapshotOf } from "./log-builders.js";
 
@@ -146,5 +147,27 @@ describe("the how to read and the README", () => {
       expect(more).toContain(name);
       expect(readme).toContain(name === "HHI" ? "HHI" : name);
     }
+  });
+});
+
+describe("the report page's captions", () => {
+  it("the weekly trend caption names the window the channel actually uses", () => {
+    const base = makeReport({ share: 0.4, pAbove: 0.9 });
+    const report = { ...base, window: { ...base.window, days: 14 } };
+    const point = (until: number, value: number) => ({
+      until,
+      members: 6,
+      effectiveVoices: { value, low: value - 1, high: value + 1 },
+      top: { share: 0.4, low: 0.3, high: 0.5 },
+      line: 0.3,
+    });
+    const html = reportPage({
+      report,
+      policy: { namesOn: false },
+      history: [point(Date.UTC(2026, 10, 23), 3), point(Date.UTC(2026, 10, 30), 3.5)],
+      generatedAt: Date.UTC(2026, 11, 1),
+    });
+    expect(html).toContain("counting the 14 days before it");
+    expect(html).not.toContain("28-day");
   });
 });
