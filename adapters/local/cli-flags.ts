@@ -79,6 +79,8 @@ function numberFlag(
     integer?: boolean;
     minExclusive?: boolean;
     maxExclusive?: boolean;
+    /** Why the range differs from the chat setting's, when it does. */
+    why?: string;
   },
   shown = raw,
 ): number {
@@ -90,7 +92,7 @@ function numberFlag(
     const open = limits.minExclusive ? "above" : "from";
     const close = limits.maxExclusive ? "below" : "to";
     throw new PlumblineError("ARG_BAD_VALUE", `--${flag} ${JSON.stringify(shown)} is not allowed`, {
-      hint: `give ${limits.integer ? "a whole number" : "a number"} ${open} ${limits.min} ${close} ${limits.max}`,
+      hint: `give ${limits.integer ? "a whole number" : "a number"} ${open} ${limits.min} ${close} ${limits.max}${limits.why ? `; ${limits.why}` : ""}`,
     });
   }
   return value;
@@ -152,7 +154,12 @@ export function settingsFromFlags(
     // bot keeps (91 days), and the CLI exists to study such logs.
     windowDays: num(
       "window",
-      { min: SETTING_LIMITS.windowDays.min, max: 365, integer: true },
+      {
+        min: SETTING_LIMITS.windowDays.min,
+        max: 365,
+        integer: true,
+        why: "the bot's setting stops at 90, but a log can hold more history than the bot keeps",
+      },
       base.windowDays,
     ),
     halfLifeDays: num("half-life", { min: 0, max: 365 }, base.halfLifeDays),
