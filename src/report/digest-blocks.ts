@@ -106,13 +106,14 @@ export function changeRow(report: AnalysisReport, previous: AnalysisReport | nul
 
 /** The one line saying what "member 3" means, when a message shows such a label. */
 export const RANK_LABELS =
-  '"member 3" means the member with the 3rd largest share in this message; it is a place in the ranking, not a name';
+  '"member 3" means the member with the 3rd largest share in these figures; it is a place in the ranking, not a name';
 
 /** Share bars for a report with figures, labelled by the naming policy. */
 export function shareBars(
   report: AnalysisReport,
   policy: NamingPolicy,
   maxBars = DIGEST_MAX_BARS,
+  explainRanks = true,
 ): Block | null {
   if (!report.influence || report.influence.length === 0) return null;
   const label = memberLabeller(report.influence, policy);
@@ -124,7 +125,7 @@ export function shareBars(
     text: `${percent(e.share)} (${percentRange(e.low, e.high)})`,
   }));
   const more = report.influence.length - rows.length;
-  const ranked = rows.some((r) => /^member \d+$/.test(r.label));
+  const ranked = explainRanks && rows.some((r) => /^member \d+$/.test(r.label));
   return {
     kind: "bars",
     caption: `Influence shares, largest first (${Math.round(report.settings.interval * 100)}% interval in brackets${more > 0 ? `; ${more} more not shown` : ""})${ranked ? `. ${RANK_LABELS}.` : ""}`,

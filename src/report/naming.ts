@@ -48,6 +48,29 @@ export function displayMember(
   return `member ${rank}`;
 }
 
+/**
+ * The policy for a page that shows a compare below its own figures: one "member k" numbering for
+ * the whole page, by the page's own ranking first, then period A's, then B's, so a member keeps
+ * one label in the figures and in both panels.
+ */
+export function samePageLabels(
+  policy: NamingPolicy,
+  report: { readonly influence: readonly { readonly member: string }[] | null },
+  compare: {
+    readonly a: {
+      readonly report: { readonly influence: readonly { readonly member: string }[] | null };
+    };
+    readonly b: {
+      readonly report: { readonly influence: readonly { readonly member: string }[] | null };
+    };
+  },
+): NamingPolicy {
+  return {
+    ...policy,
+    ranks: sharedRanks([report.influence, compare.a.report.influence, compare.b.report.influence]),
+  };
+}
+
 /** A lookup from member id to display label for one report, using ranks in `influence` order. */
 export function memberLabeller(
   influence: readonly { readonly member: string; readonly named: boolean }[],

@@ -21,10 +21,10 @@ import { shareBarsChart } from "./charts/share-bars-chart.js";
 import { escapeXml } from "./charts/svg.js";
 import type { WeeklyPoint } from "./charts/weekly-series.js";
 import { compareBlocks } from "./compare-blocks.js";
-import { RANK_LABELS } from "./digest-blocks.js";
 import { explainBlocks } from "./explain-blocks.js";
 import { decimal1, percent } from "./format.js";
-import { type NamingPolicy, sharedRanks } from "./naming.js";
+import type { NamingPolicy } from "./naming.js";
+import { samePageLabels } from "./naming.js";
 import { summaryBlocks } from "./summary-blocks.js";
 
 /** The page's Content-Security-Policy: nothing may be fetched; only the inline style applies. */
@@ -45,19 +45,6 @@ export interface ReportPageInput {
   readonly generatedAt: number;
   /** A line saying who the page is for, e.g. "Shown only to you …". */
   readonly audience?: string;
-}
-
-/** Every word of some blocks, to see whether they show a "member k" label. */
-function blocksText(blocks: readonly Block[]): string {
-  return blocks
-    .map((b) =>
-      b.kind === "figures"
-        ? b.rows.map((r) => `${r.label} ${r.value} ${r.detail ?? ""}`).join("\n")
-        : b.kind === "bars"
-          ? b.rows.map((r) => r.label).join("\n")
-          : b.text,
-    )
-    .join("\n");
 }
 
 function figure(svg: string | null, caption: string): string {
@@ -119,13 +106,8 @@ function historyCharts(history: readonly WeeklyPoint[], windowDays: number): str
   return `<div class="charts">${figure(voices, `Effective voices: how many evenly heard voices the channel's shared view is worth, each week, counting the ${windowDays} days before it.`)}${figure(top, "The largest single share each week; the dashed line is the line.")}</div>`;
 }
 
-function compareSection(result: CompareReport, basePolicy: NamingPolicy): string {
+function compareSection(result: CompareReport, policy: NamingPolicy): string {
   const blocks = compareBlocks(result).filter((b) => b.kind !== "heading" && b.kind !== "cautions");
-  // One member keeps one "member k" label in both panels: numbered by period A's ranking.
-  const policy: NamingPolicy = {
-    ...basePolicy,
-    ranks: sharedRanks([result.a.report.influence, result.b.report.influence]),
-  };
   const bars = (report: AnalysisReport, name: string, range: string) =>
     figure(
       shareBarsChart(report, policy, {
@@ -133,7 +115,7 @@ function compareSection(result: CompareReport, basePolicy: NamingPolicy): string
         title: `Shares, period ${name} ${range}`,
         maxBars: 12,
       }),
-      `Period ${name}: ${range}. "member k" keeps one number in both periods: the k-th largest share in period A, then members seen only in B numbered on.`,
+      `Period ${name}: ${range}`,
     ) || `<p>Period ${name} (${escapeXml(range)}) has no shares to show.</p>`;
   return [
     `<section id="compare"><h2>${escapeXml(`Compare: A ${result.a.range} against B ${result.b.range}`)}</h2>`,
@@ -150,7 +132,7 @@ export function reportPage(input: ReportPageInput): string {
   const summary: Block[] = summaryBlocks(report, policy).filter((b) => b.kind !== "heading");
   const shares = figure(
     shareBarsChart(report, policy),
-    `Bars: influence share. Whiskers: the ${Math.round(report.settings.interval * 100)}% interval. Dashed: the line.${/\bmember \d+\b/.test(blocksText(summary)) ? ` ${RANK_LABELS}.` : ""}`,
+    `Bars: influence share. Whiskers: the ${Math.round(report.settings.interval * 100)}% interval. Dashed: the line.`,
   );
   const map =
     input.attention && report.influence
@@ -178,7 +160,9 @@ export function reportPage(input: ReportPageInput): string {
     input.history
       ? `<section id="history"><h2>Week by week</h2>${historyCharts(input.history, report.window.days)}</section>`
       : "",
-    input.compare ? compareSection(input.compare, policy) : "",
+    input.compare
+      ? compareSection(input.compare, samePageLabels(policy, report, input.compare))
+      : "",
     `<section id="how-to-read"><h2>How to read</h2>${blocksHtml(explainBlocks().slice(1))}</section>`,
     "</main></body></html>",
     "",

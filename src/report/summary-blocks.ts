@@ -7,7 +7,7 @@
 import type { Block, FigureRow } from "../domain/blocks.js";
 import type { AnalysisReport } from "../domain/report.js";
 import { CAUTIONS_LINE } from "./cautions.js";
-import { neededText, shareBars, structureText, windowText } from "./digest-blocks.js";
+import { neededText, RANK_LABELS, shareBars, structureText, windowText } from "./digest-blocks.js";
 import { decimal1, percent, percentRange, probability, voicesOf } from "./format.js";
 import { memberLabeller, type NamingPolicy } from "./naming.js";
 import { plainReading } from "./reading.js";
@@ -75,8 +75,17 @@ export function summaryBlocks(
   // `explain more`, not in a check (DESIGN.md §1).
   blocks.push({ kind: "note", text: plainReading(report) });
   blocks.push({ kind: "figures", rows });
-  const bars = shareBars(report, policy, options.maxBars ?? 20);
+  // "member k" is explained in a note of its own (the page shows the note but draws the bars).
+  const bars = shareBars(report, policy, options.maxBars ?? 20, false);
   if (bars) blocks.push(bars);
+  const shown = [
+    ...(bars?.kind === "bars" ? bars.rows.map((r) => r.label) : []),
+    label(report.top.member),
+    ...(report.contributors ?? []).slice(0, 5).map((c) => label(c.member)),
+  ];
+  if (shown.some((l) => /^member \d+$/.test(l))) {
+    blocks.push({ kind: "note", text: `${RANK_LABELS}.` });
+  }
   const groups = report.groups ?? report.clusters?.groups ?? null;
   // One cluster covering everyone says nothing: clusters are shown only when there are several.
   if (groups && (report.groups ? groups.length > 0 : groups.length > 1)) {

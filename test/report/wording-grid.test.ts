@@ -25,7 +25,7 @@ import { compareBlocks, whatIfBlocks } from "../../src/report/compare-blocks.js"
 import { digestMessage, RANK_LABELS } from "../../src/report/digest-blocks.js";
 import { decimal1, percent } from "../../src/report/format.js";
 import { meBlocks, statusBlocks } from "../../src/report/member-blocks.js";
-import { memberLabeller, sharedRanks } from "../../src/report/naming.js";
+import { memberLabeller, samePageLabels, sharedRanks } from "../../src/report/naming.js";
 import { noteMessage } from "../../src/report/note-blocks.js";
 import { plainReading, verdictOf } from "../../src/report/reading.js";
 import { renderText } from "../../src/report/render-text.js";
@@ -368,18 +368,30 @@ describe.each([
       compare: result,
       generatedAt: Date.UTC(2026, 11, 18),
     });
-    const section = pageText(html.split('<section id="compare">')[1] ?? "");
-    expect(section).toContain('"member k" keeps one number in both periods');
-    // The labeller the panels use: one member, one label, in A and in B.
-    const ranks = sharedRanks([result.a.report.influence, result.b.report.influence]);
-    const inA = memberLabeller(result.a.report.influence ?? [], { namesOn: false, ranks });
-    const inB = memberLabeller(result.b.report.influence ?? [], { namesOn: false, ranks });
+    expect(pageText(html).split(RANK_LABELS).length - 1).toBe(1);
+    // The labeller the page gives its panels: one member, one label, in the page's own figures
+    // (period B here) and in both panels; numbered by the page's own ranking.
+    const policy = samePageLabels({ namesOn: false }, result.b.report, result);
+    const own = memberLabeller(result.b.report.influence ?? [], { namesOn: false });
+    const inA = memberLabeller(result.a.report.influence ?? [], policy);
+    const inB = memberLabeller(result.b.report.influence ?? [], policy);
     const members = (result.b.report.influence ?? []).map((e) => e.member);
     expect(members.length).toBe(result.b.report.members);
-    for (const m of members) expect(inB(m)).toBe(inA(m));
-    // Period A's own ranking decides the numbers: its largest share is member 1 in both panels.
+    for (const m of members) {
+      expect(inA(m)).toBe(own(m));
+      expect(inB(m)).toBe(own(m));
+    }
+    // Without the shared numbering, period A's leader would be "member 1" in its panel.
     const leader = result.a.report.top?.member ?? "";
-    expect(inB(leader)).toBe("member 1");
+    expect(memberLabeller(result.a.report.influence ?? [], { namesOn: false })(leader)).toBe(
+      "member 1",
+    );
+    expect(inA(leader)).toBe(own(leader));
+    // The other way round: panel labels follow A first when no page ranking is given.
+    const ranks = sharedRanks([result.a.report.influence, result.b.report.influence]);
+    expect(memberLabeller(result.b.report.influence ?? [], { namesOn: false, ranks })(leader)).toBe(
+      "member 1",
+    );
     expectPlainWords("report page", pageText(html));
     expectNoCertainty("report page", pageText(html));
   });
