@@ -78,12 +78,12 @@ export function summaryBlocks(
   // "member k" is explained in a note of its own (the page shows the note but draws the bars).
   const bars = shareBars(report, policy, options.maxBars ?? 20, false);
   if (bars) blocks.push(bars);
-  const shown = [
+  const labelsShown = [
     ...(bars?.kind === "bars" ? bars.rows.map((r) => r.label) : []),
     label(report.top.member),
     ...(report.contributors ?? []).slice(0, 5).map((c) => label(c.member)),
   ];
-  if (shown.some((l) => /^member \d+$/.test(l))) {
+  if (labelsShown.some((l) => /^member \d+$/.test(l))) {
     blocks.push({ kind: "note", text: `${RANK_LABELS}.` });
   }
   const groups = report.groups ?? report.clusters?.groups ?? null;
