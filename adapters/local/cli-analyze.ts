@@ -7,6 +7,7 @@
 import { analyzeSnapshot } from "../../src/analysis/analyze-snapshot.js";
 import { comparePeriods } from "../../src/analysis/compare-periods.js";
 import { whatIfCap } from "../../src/analysis/what-if.js";
+import { parseShare } from "../../src/commands/parse-input.js";
 import { parseDateRange, windowAndPrevious } from "../../src/domain/date-range.js";
 import { PlumblineError } from "../../src/domain/errors.js";
 import type { AnalysisSettings } from "../../src/domain/settings.js";
@@ -79,7 +80,7 @@ export async function runCompare(argv: readonly string[], io: CliIo): Promise<nu
   } else {
     throw new PlumblineError(
       "ARG_MISSING",
-      "give both --a and --b, or neither (this window against the one before)",
+      "give both --a and --b, or neither (the last --window days against the same number of days before)",
       { hint: `usage: ${usage}` },
     );
   }
@@ -98,10 +99,11 @@ export async function runWhatIf(argv: readonly string[], io: CliIo): Promise<num
     throw new PlumblineError("ARG_MISSING", "whatif needs --cap", {
       hint: "for example --cap 0.25",
     });
-  const cap = Number(raw);
-  if (!(Number.isFinite(cap) && cap > 0 && cap < 1)) {
+  // The same values as the chat's `whatif cap`: a share above 0 and at most 1, as 0.25 or 25%.
+  const cap = parseShare(raw);
+  if (cap === null || !(cap > 0 && cap <= 1)) {
     throw new PlumblineError("ARG_BAD_VALUE", `--cap ${JSON.stringify(raw)} is not a share`, {
-      hint: "give a share between 0 and 1, for example 0.25",
+      hint: "give a share above 0 and at most 1, for example 0.25 or 25%",
     });
   }
   const result = whatIfCap(snapshot, settings, { cap, ...(until === undefined ? {} : { until }) });

@@ -5,6 +5,8 @@
  * allowed range; nothing is guessed.
  */
 import { parseArgs } from "node:util";
+import { parseShare } from "../../src/commands/parse-input.js";
+import { SETTING_LIMITS } from "../../src/domain/channel-settings.js";
 import { PlumblineError } from "../../src/domain/errors.js";
 import { type AnalysisSettings, DAY_MS, DEFAULT_SETTINGS } from "../../src/domain/settings.js";
 
@@ -77,7 +79,10 @@ function numberFlag(
     integer?: boolean;
     minExclusive?: boolean;
     maxExclusive?: boolean;
+    /** Why the range differs from the chat setting's, when it does. */
+    why?: string;
   },
+  shown = raw,
 ): number {
   const value = Number(raw);
   const lowOk = limits.minExclusive ? value > limits.min : value >= limits.min;
@@ -86,8 +91,8 @@ function numberFlag(
   if (raw.trim() === "" || !Number.isFinite(value) || !lowOk || !highOk || !intOk) {
     const open = limits.minExclusive ? "above" : "from";
     const close = limits.maxExclusive ? "below" : "to";
-    throw new PlumblineError("ARG_BAD_VALUE", `--${flag} ${JSON.stringify(raw)} is not allowed`, {
-      hint: `give ${limits.integer ? "a whole number" : "a number"} ${open} ${limits.min} ${close} ${limits.max}`,
+    throw new PlumblineError("ARG_BAD_VALUE", `--${flag} ${JSON.stringify(shown)} is not allowed`, {
+      hint: `give ${limits.integer ? "a whole number" : "a number"} ${open} ${limits.min} ${close} ${limits.max}${limits.why ? `; ${limits.why}` : ""}`,
     });
   }
   return value;
@@ -128,16 +133,35 @@ export function settingsFromFlags(
     return raw === undefined ? fallback : numberFlag(raw, flag, limits);
   };
   const thresholdRaw = get("threshold");
+  // The same values as the chat's `set threshold`: auto, or a share written 0.35 or 35%.
+  const thresholdShare =
+    thresholdRaw === undefined || thresholdRaw === "auto" ? null : parseShare(thresholdRaw);
   const threshold =
     thresholdRaw === undefined
       ? base.threshold
       : thresholdRaw === "auto"
         ? "auto"
-        : numberFlag(thresholdRaw, "threshold", { min: 0.05, max: 0.95 });
+        : numberFlag(
+            thresholdShare === null ? thresholdRaw : String(thresholdShare),
+            "threshold",
+            { min: SETTING_LIMITS.threshold.min, max: SETTING_LIMITS.threshold.max },
+            thresholdRaw,
+          );
   const seedRaw = get("seed");
   const settings: AnalysisSettings = {
     ...base,
-    windowDays: num("window", { min: 1, max: 365, integer: true }, base.windowDays),
+    // From 7 days as in chat; up to 365 (chat: 90) because a log can hold more history than the
+    // bot keeps (91 days), and the CLI exists to study such logs.
+    windowDays: num(
+      "window",
+      {
+        min: SETTING_LIMITS.windowDays.min,
+        max: 365,
+        integer: true,
+        why: "the bot's setting stops at 90, but a log can hold more history than the bot keeps",
+      },
+      base.windowDays,
+    ),
     halfLifeDays: num("half-life", { min: 0, max: 365 }, base.halfLifeDays),
     replyWeight: num("reply-weight", { min: 0, max: 100 }, base.replyWeight),
     mentionWeight: num("mention-weight", { min: 0, max: 100 }, base.mentionWeight),

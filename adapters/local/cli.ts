@@ -4,6 +4,7 @@
  * `plumbline <command>`: the local adapter's entry point. Routes to one module per command; every
  * error a user can cause prints one line naming the problem and the fix, and exits with code 2.
  */
+import { nearestMatch } from "../../src/commands/nearest-match.js";
 import { isPlumblineError } from "../../src/domain/errors.js";
 import { printable } from "../../src/report/printable.js";
 import { runAnalyze, runCompare, runWhatIf } from "./cli-analyze.js";
@@ -104,9 +105,14 @@ export async function main(argv: readonly string[], given: CliIo): Promise<numbe
     io.stdout(HELP);
     return 0;
   }
-  const command = COMMANDS[name];
+  const command = Object.hasOwn(COMMANDS, name) ? COMMANDS[name] : undefined;
   if (!command) {
-    io.stderr(`plumbline: unknown command "${name}". Run "plumbline help" for the list.\n`);
+    const near = nearestMatch(name, Object.keys(COMMANDS));
+    io.stderr(
+      near === null
+        ? `plumbline: unknown command "${name}". Run "plumbline help" for the list. [ARG_UNKNOWN]\n`
+        : `plumbline: unknown command "${name}"; did you mean "${near}"? Usage: plumbline ${COMMANDS[near].summary} (${COMMANDS[near].about}) [ARG_UNKNOWN]\n`,
+    );
     return 2;
   }
   try {

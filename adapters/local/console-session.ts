@@ -5,6 +5,7 @@
  * clock runs the real scheduler hour by hour, so digests and notes fire exactly as they would.
  * Message text is read only to find `@mentions` and is then dropped.
  */
+import { consentAt, snapshotIds } from "../../src/commands/member-view.js";
 import type { ChatEvent } from "../../src/domain/events.js";
 import type { ManualClock } from "../../src/ports/clock.js";
 import type { Bot } from "../create-bot.js";
@@ -120,11 +121,36 @@ export class ConsoleSession {
     };
     await bot.onEvent(event, `console:${channel}:${id}`);
     this.messages.push({ id, author, at: event.at });
+    const replyTo = parent && parent.author !== author ? [parent.author] : [];
+    const mentioned = mentions.filter((m) => m !== author);
     const targets = [
-      ...(parent && parent.author !== author ? [`replies to ${parent.author}`] : []),
-      ...mentions.filter((m) => m !== author).map((m) => `mentions ${m}`),
+      ...replyTo.map((p) => `replies to ${p}`),
+      ...mentioned.map((m) => `mentions ${m}`),
     ];
-    this.say(`#${number} ${author}${targets.length ? `: ${targets.join(", ")}` : ""}`);
+    const why = targets.length ? await this.notCounted(author, [...replyTo, ...mentioned]) : "";
+    this.say(`#${number} ${author}${targets.length ? `: ${targets.join(", ")}` : ""}${why}`);
+  }
+
+  /**
+   * " (not counted: zed has not joined)" when a reply or mention cannot count because its author
+   * or its target has not opted in (DESIGN.md §4.1); "" when every one counts.
+   */
+  private async notCounted(author: string, targets: readonly string[]): Promise<string> {
+    const { bot, channel, clock } = this.deps;
+    const snapshot = await bot.store.loadSnapshot(channel);
+    const joined = (member: string) =>
+      consentAt(snapshot, snapshotIds(bot.store, member), clock.now()) !== "off";
+    if (!joined(author)) {
+      return ` (not counted: ${author} has not joined; /influence join to opt in)`;
+    }
+    const missing = [...new Set(targets)].filter((t) => !joined(t));
+    if (missing.length === 0) return "";
+    const who =
+      missing.length === 1
+        ? missing[0]
+        : `${missing.slice(0, -1).join(", ")} and ${missing.at(-1)}`;
+    const counted = missing.length < new Set(targets).size ? "partly counted" : "not counted";
+    return ` (${counted}: ${who} ${missing.length === 1 ? "has" : "have"} not joined)`;
   }
 
   private async command(member: string, args: string): Promise<void> {

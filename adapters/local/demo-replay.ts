@@ -29,6 +29,8 @@ import { LocalPlatform } from "./local-platform.js";
 
 export const DEMO_FACILITATOR = "ines";
 
+const HOUR_MS = 3_600_000;
+
 function day(ms: number): string {
   return new Date(ms).toISOString().slice(0, 10);
 }
@@ -61,14 +63,33 @@ export async function runDemoReplay(print: (text: string) => void): Promise<numb
     print(
       `${demoDescription()}\n\nEvery post below is printed as the channel (or one member) would see it.\n\n`,
     );
+    // Each heading names the days the posts under it cover: a week's heading covers that week
+    // (its notes and answers end inside it); each Monday's digest comes under "after week N",
+    // because it covers the days up to that Monday 09:00.
+    const weekStart = (w: number) => DEMO_START + w * 7 * DAY_MS;
+    const format = (w: number) => (w < DEMO_SWITCH_WEEK ? "coordinator-led" : "rotating hosts");
+    const afterWeek = async (w: number, question = "") => {
+      print(
+        `\n======== Monday ${day(weekStart(w + 1))}, after week ${w + 1} (${format(w)})${question} ========\n\n`,
+      );
+      // The digest is due at 09:00; the new week's first thread opens at 09:00 or later.
+      await session.advanceTo(weekStart(w + 1) + HOUR_MS);
+      if (w === DEMO_SWITCH_WEEK - 1) {
+        print(
+          "(Before the switch to rotating hosts, rosa looks at the coordinator-led weeks.)\n\n",
+        );
+        await as("rosa> /influence check");
+      }
+    };
     let week = -1;
     for (const [k, event] of events.entries()) {
       const eventWeek = Math.floor((event.at - DEMO_START) / (7 * DAY_MS));
       if (eventWeek !== week && eventWeek >= 0) {
+        if (week >= 0) await afterWeek(week);
+        else await session.advanceTo(weekStart(0));
         week = eventWeek;
-        const format = week < DEMO_SWITCH_WEEK ? "coordinator-led" : "rotating hosts";
         print(
-          `\n======== Week ${week + 1} of ${DEMO_WEEKS} (${format}), from ${day(DEMO_START + week * 7 * DAY_MS)} ========\n\n`,
+          `\n======== Week ${week + 1} of ${DEMO_WEEKS} (${format(week)}), ${day(weekStart(week))} to ${day(weekStart(week) + 6 * DAY_MS)} ========\n\n`,
         );
         if (week === 0) {
           await as(`${DEMO_FACILITATOR}> /influence set names on`);
@@ -76,14 +97,12 @@ export async function runDemoReplay(print: (text: string) => void): Promise<numb
         if (week === 2) await as("lena> /influence me");
         if (week === DEMO_SWITCH_WEEK) {
           print("(The channel switches to rotating hosts this week.)\n\n");
-          await as("rosa> /influence check");
         }
       }
       await session.advanceTo(event.at);
       await bot.onEvent(event, keyOf(event, k));
     }
-    await session.advanceTo(DEMO_START + DEMO_WEEKS * 7 * DAY_MS + 10 * 3_600_000);
-    print(`\n======== After week ${DEMO_WEEKS}: did the new format help? ========\n\n`);
+    await afterWeek(DEMO_WEEKS - 1, ": did the new format help?");
     const { a, b } = demoRanges();
     await as(`${DEMO_FACILITATOR}> /influence compare ${a.label} ${b.label}`);
     print(

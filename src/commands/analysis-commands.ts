@@ -16,6 +16,7 @@ import type { LedgerSnapshot } from "../domain/ledger.js";
 import type { AnalysisReport } from "../domain/report.js";
 import { compareBlocks, whatIfBlocks } from "../report/compare-blocks.js";
 import { EXPLAIN_POINTER } from "../report/digest-blocks.js";
+import { commandUsage } from "../report/help-text.js";
 import { meBlocks } from "../report/member-blocks.js";
 import { summaryBlocks } from "../report/summary-blocks.js";
 import { readChannelSettings } from "./channel-settings-store.js";
@@ -106,9 +107,10 @@ export async function compare(
   } else if (args.length === 2) {
     ranges = { a: parseDateRange(args[0]), b: parseDateRange(args[1]) };
   } else {
-    throw new PlumblineError("ARG_BAD_VALUE", "compare takes two periods, or none", {
-      hint: "write /influence compare 2026-10-01..2026-10-28 2026-11-01..2026-11-28, or just /influence compare for this window against the one before",
-    });
+    throw new PlumblineError(
+      "ARG_BAD_VALUE",
+      `compare takes two periods, or none; you gave ${args.length === 1 ? "one" : args.length}. ${commandUsage("compare")}`,
+    );
   }
   const snapshot = await deps.store.loadSnapshot(context.channel);
   const result = comparePeriods(snapshot, analysisSettingsFor(settings), ranges);

@@ -8,13 +8,21 @@
 import type { Block } from "../domain/blocks.js";
 import { PlumblineError } from "../domain/errors.js";
 import { ingest } from "../ingest/ingest.js";
+import { commandUsage } from "../report/help-text.js";
 import { settingsRows } from "../report/member-blocks.js";
 import { readChannelSettings, writeChannelSettings } from "./channel-settings-store.js";
 import { commandOccurrence } from "./command-keys.js";
 import type { CommandContext, CommandDeps, CommandResponse } from "./command-types.js";
 import { consentAt, snapshotIds } from "./member-view.js";
+import { nearestMatch } from "./nearest-match.js";
 import { parseMember } from "./parse-input.js";
-import { ALLOWED, parseSetting, SETTING_KEYS, settingKey } from "./parse-setting.js";
+import {
+  parseSetting,
+  SETTING_ALIASES,
+  SETTING_KEYS,
+  settingKey,
+  settingUsage,
+} from "./parse-setting.js";
 import { isFacilitator, nameOf, refusal } from "./permissions.js";
 import { respond, respondNotes } from "./respond.js";
 
@@ -49,17 +57,32 @@ export async function set(
   }
   const key = args.length > 0 ? settingKey(args[0]) : null;
   if (key === null) {
-    const keys = SETTING_KEYS.map((k) => `${k} (${ALLOWED[k]})`);
+    if (args.length === 0) {
+      throw new PlumblineError(
+        "SETTING_BAD_VALUE",
+        `"set" needs a key and a value. ${commandUsage("set")}. Nothing was changed`,
+        { hint: "write /influence set <key> <value>, e.g. /influence set window 21" },
+      );
+    }
+    const near = nearestMatch(args[0], [...SETTING_KEYS, ...Object.keys(SETTING_ALIASES)]);
+    const nearKey = near === null ? null : settingKey(near);
     throw new PlumblineError(
       "SETTING_BAD_VALUE",
-      `${args.length === 0 ? "set needs a key and a value" : `there is no setting "${args[0]}"`}. The keys are: ${keys.join("; ")}. Nothing was changed.`,
+      nearKey === null
+        ? `there is no setting "${args[0]}". The keys are ${SETTING_KEYS.join(", ")}; /influence settings shows each with its value. Nothing was changed`
+        : `there is no setting "${args[0]}"; did you mean \`${nearKey}\`? ${settingUsage(nearKey)}. Nothing was changed`,
       { hint: "write /influence set <key> <value>, e.g. /influence set window 21" },
     );
   }
   const before = await readChannelSettings(deps.store, context.channel);
   const after = { ...before, ...parseSetting(key, args.slice(1)) };
-  await writeChannelSettings(deps.store, context.channel, after);
   const row = (settings: typeof before) => settingsRows(settings).find((r) => r.label === key);
+  if (JSON.stringify(after) === JSON.stringify(before)) {
+    return respondNotes(
+      `The setting ${key} is already ${row(before)?.value}. Nothing was changed.`,
+    );
+  }
+  await writeChannelSettings(deps.store, context.channel, after);
   return respondNotes(
     `Set ${key} to ${row(after)?.value} (was ${row(before)?.value}). The change applies from now on.`,
   );

@@ -46,9 +46,9 @@ export async function join(
   if (word !== "counted" && word !== "named") {
     throw new PlumblineError(
       "ARG_BAD_VALUE",
-      `join takes nothing, or "named"; not "${args.join(" ")}"`,
+      `join takes nothing, "counted" or "named"; not "${args.join(" ")}"`,
       {
-        hint: "write /influence join to be counted without your name, or /influence join named",
+        hint: "write /influence join (or /influence join counted) to be counted without your name, or /influence join named",
       },
     );
   }
@@ -56,10 +56,9 @@ export async function join(
   const { store } = deps;
   const snapshot = await store.loadSnapshot(context.channel);
   const current = consentChangeAt(snapshot, snapshotIds(store, context.member), context.now);
-  const notice = consentNoticeBlocks();
   if (current?.level === level) {
     return respond([
-      ...notice,
+      ...consentNoticeBlocks("You are already in: what plumbline counts"),
       { kind: "note", text: `You are already in as ${LEVEL_WORDS[level]}. Nothing changed.` },
     ]);
   }
@@ -83,7 +82,7 @@ export async function join(
   );
   const other = level === "counted" ? "/influence join named" : "/influence join";
   const blocks: Block[] = [
-    ...notice,
+    ...consentNoticeBlocks("You have joined: what plumbline counts"),
     {
       kind: "note",
       text: `You are in as ${LEVEL_WORDS[level]}. Counting starts now; only replies and mentions between members who have both joined count.`,

@@ -35,7 +35,8 @@ export const SETTING_KEYS: readonly SettingKey[] = [
   "minmembers",
 ];
 
-const ALIASES: Record<string, SettingKey> = {
+/** Other words accepted for a key. */
+export const SETTING_ALIASES: Readonly<Record<string, SettingKey>> = {
   line: "threshold",
   "half-life": "halflife",
   "min-members": "minmembers",
@@ -45,7 +46,10 @@ const ALIASES: Record<string, SettingKey> = {
 /** The setting key a word names, or null. */
 export function settingKey(word: string): SettingKey | null {
   const w = word.toLowerCase();
-  return SETTING_KEYS.find((k) => k === w) ?? ALIASES[w] ?? null;
+  return (
+    SETTING_KEYS.find((k) => k === w) ??
+    (Object.hasOwn(SETTING_ALIASES, w) ? SETTING_ALIASES[w] : null)
+  );
 }
 
 /** What each key accepts, as said to the user. */
@@ -61,11 +65,16 @@ export const ALLOWED: Record<SettingKey, string> = {
   minmembers: "a whole number from 3 to 50, e.g. set minmembers 5",
 };
 
+/** The one-line usage of `set <key>`. */
+export function settingUsage(key: SettingKey): string {
+  return `/influence set ${key} <value>: ${ALLOWED[key]}`;
+}
+
 function bad(key: SettingKey, given: string): PlumblineError {
-  const shown = given === "" ? "nothing" : `"${given}"`;
+  const said = given === "" ? `"set ${key}" needs a value.` : `${key} cannot be "${given}".`;
   return new PlumblineError(
     "SETTING_BAD_VALUE",
-    `${key} cannot be ${shown}. It takes ${ALLOWED[key]}. Nothing was changed.`,
+    `${said} ${settingUsage(key)}. Nothing was changed.`,
     { hint: `give ${key} ${ALLOWED[key]}` },
   );
 }

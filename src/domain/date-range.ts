@@ -46,13 +46,16 @@ export function parseDateRange(text: string): DateRange {
   return { start, until: end + DAY_MS - 1, days, label: text };
 }
 
-/** The window of `days` ending at `until`, and the one of the same length just before it. */
+/**
+ * The `days` whole UTC days ending with `until`'s day, and the `days` days just before them, as
+ * [earlier, later]. Whole days, so the two ranges never share a day and read as the labels say.
+ */
 export function windowAndPrevious(until: number, days: number): [DateRange, DateRange] {
-  const make = (end: number): DateRange => ({
-    start: end - days * DAY_MS + 1,
-    until: end,
-    days,
-    label: `${new Date(end - days * DAY_MS + 1).toISOString().slice(0, 10)}..${new Date(end).toISOString().slice(0, 10)}`,
-  });
-  return [make(until - days * DAY_MS), make(until)];
+  const day = (ms: number) => new Date(ms).toISOString().slice(0, 10);
+  const make = (first: number): DateRange => {
+    const last = first + (days - 1) * DAY_MS;
+    return { start: first, until: last + DAY_MS - 1, days, label: `${day(first)}..${day(last)}` };
+  };
+  const lastFirst = Math.floor(until / DAY_MS) * DAY_MS - (days - 1) * DAY_MS;
+  return [make(lastFirst - days * DAY_MS), make(lastFirst)];
 }

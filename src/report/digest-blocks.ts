@@ -11,7 +11,15 @@ import type { AnalysisReport } from "../domain/report.js";
 import type { OutgoingMessage } from "../ports/chat-platform.js";
 import { CAUTIONS_LINE } from "./cautions.js";
 import { shareBarsChart } from "./charts/share-bars-chart.js";
-import { decimal1, isoDay, percent, percentRange, voicesOf } from "./format.js";
+import {
+  changeText,
+  decimal1,
+  isoDay,
+  percent,
+  percentRange,
+  probability,
+  voicesOf,
+} from "./format.js";
 import { memberLabeller, type NamingPolicy } from "./naming.js";
 import { plainReading } from "./reading.js";
 import { renderText } from "./render-text.js";
@@ -32,14 +40,14 @@ export interface DigestArgs {
   readonly channelName?: string;
 }
 
-/** "2026-11-02 to 2026-11-30 (28 days, half-life 14 days)". */
+/** "Replies and mentions from 2026-11-02 to 2026-11-30 (28 days; one 14 days old counts half …)". */
 export function windowText(report: AnalysisReport): string {
   const w = report.window;
   const decay =
     w.halfLifeDays > 0
-      ? `recent weeks count more, half-life ${w.halfLifeDays} days`
+      ? `one ${w.halfLifeDays} days old counts half as much as one from today`
       : "every day counts the same";
-  return `${isoDay(w.from)} to ${isoDay(w.until)} (${w.days} days; ${decay})`;
+  return `Replies and mentions from ${isoDay(w.from)} to ${isoDay(w.until)} (${w.days} days; ${decay}).`;
 }
 
 /** What an insufficient report lacks, in plain words with the numbers. */
@@ -56,30 +64,22 @@ export function neededText(report: AnalysisReport): string {
       `${needed.signals} more ${needed.signals === 1 ? "reply or mention" : "replies or mentions"} between opted-in members`,
     );
   }
-  const have = `${report.members} active opted-in member${report.members === 1 ? "" : "s"} and ${report.signals} signal${report.signals === 1 ? "" : "s"} (replies and mentions) in the window`;
+  const have = `${report.members} active opted-in member${report.members === 1 ? "" : "s"} and ${report.signals} ${report.signals === 1 ? "reply or mention" : "replies or mentions"} between them in these ${report.window.days} days`;
   return `Not enough opted-in activity for figures yet: ${have}. Figures need ${parts.join(" and ")}. Anyone can opt in with /influence join.`;
 }
 
-/** Closed groups and the speed of settling, in plain words. */
+/** Whether everyone is in one conversation, in plain words. */
 export function structureText(report: AnalysisReport): string {
   const c = report.consensus;
   if (!c) return "not known";
   if (c.closedGroups > 1) {
-    return `${c.closedGroups} groups listen only among themselves, so there is no single pooled view`;
+    return `${c.closedGroups} groups only answer among themselves${report.status === "ok" ? "" : ", so there is no single shared view"}`;
   }
-  if (!c.reached || c.roundsToHalve === null) return "views keep circling and do not settle";
-  const rounds =
-    c.roundsToHalve === 0 ? "at once" : `about every ${decimal1(c.roundsToHalve)} rounds`;
-  return `one closed group: views settle on one consensus; disagreement halves ${rounds} of discussion`;
+  if (!c.reached) return "views keep going round without coming together";
+  return "everyone is connected in one conversation";
 }
 
-function signed(x: number, digits: number): string {
-  const text = Math.abs(x).toFixed(digits);
-  if (Number(text) === 0) return `±${text}`;
-  return `${x > 0 ? "+" : "−"}${text}`;
-}
-
-/** The change since the previous digest, or why there is none. */
+/** The change since the previous digest, or why there is none, from the printed figures. */
 export function changeRow(report: AnalysisReport, previous: AnalysisReport | null): FigureRow {
   if (previous === null) {
     return { label: "Since last digest", value: "first digest: nothing to compare with yet" };
@@ -88,20 +88,32 @@ export function changeRow(report: AnalysisReport, previous: AnalysisReport | nul
   if (!previous.effectiveVoices || !previous.top || !report.effectiveVoices || !report.top) {
     return { label, value: "no comparison: that week had too little data for figures" };
   }
-  const ev = report.effectiveVoices.value - previous.effectiveVoices.value;
-  const top = (report.top.share - previous.top.share) * 100;
-  const points = Math.round(top);
-  return {
-    label,
-    value: `effective voices ${signed(ev, 1)} (${decimal1(previous.effectiveVoices.value)} → ${decimal1(report.effectiveVoices.value)}); largest share ${signed(top, 0)} point${Math.abs(points) === 1 ? "" : "s"} (${percent(previous.top.share)} → ${percent(report.top.share)})`,
-  };
+  const voices = changeText(
+    "effective voices",
+    decimal1(previous.effectiveVoices.value),
+    decimal1(report.effectiveVoices.value),
+    1,
+  );
+  const top = changeText(
+    "largest share",
+    percent(previous.top.share),
+    percent(report.top.share),
+    0,
+    "point",
+  );
+  return { label, value: `${voices}; ${top}` };
 }
+
+/** The one line saying what "member 3" means, when a message shows such a label. */
+export const RANK_LABELS =
+  '"member 3" means the member with the 3rd largest share in these figures; it is a place in the ranking, not a name';
 
 /** Share bars for a report with figures, labelled by the naming policy. */
 export function shareBars(
   report: AnalysisReport,
   policy: NamingPolicy,
   maxBars = DIGEST_MAX_BARS,
+  explainRanks = true,
 ): Block | null {
   if (!report.influence || report.influence.length === 0) return null;
   const label = memberLabeller(report.influence, policy);
@@ -113,9 +125,10 @@ export function shareBars(
     text: `${percent(e.share)} (${percentRange(e.low, e.high)})`,
   }));
   const more = report.influence.length - rows.length;
+  const ranked = explainRanks && rows.some((r) => /^member \d+$/.test(r.label));
   return {
     kind: "bars",
-    caption: `Influence shares, largest first (${Math.round(report.settings.interval * 100)}% interval in brackets${more > 0 ? `; ${more} more not shown` : ""})`,
+    caption: `Influence shares, largest first (${Math.round(report.settings.interval * 100)}% interval in brackets${more > 0 ? `; ${more} more not shown` : ""})${ranked ? `. ${RANK_LABELS}.` : ""}`,
     rows,
     line: report.line?.threshold ?? null,
   };
@@ -124,7 +137,11 @@ export function shareBars(
 function figureRows(args: DigestArgs): FigureRow[] {
   const { report, previous, policy } = args;
   const rows: FigureRow[] = [
-    { label: "Active members", value: `${report.members}`, detail: `${report.signals} signals` },
+    {
+      label: "Active members",
+      value: `${report.members}`,
+      detail: `${report.signals} replies and mentions`,
+    },
   ];
   const ev = report.effectiveVoices;
   const top = report.top;
@@ -152,8 +169,8 @@ function figureRows(args: DigestArgs): FigureRow[] {
         label: "Line",
         value: percent(report.line.threshold),
         detail: report.line.crossed
-          ? `crossed: one member is above it with probability ${percent(report.line.probability)}`
-          : "not crossed",
+          ? `one member's share is above it, probability ${probability(report.line.probability)}`
+          : "nobody is clearly above it",
       });
     }
     rows.push(changeRow(report, previous));

@@ -33,8 +33,9 @@ export const HELP_ENTRIES: readonly HelpEntry[] = [
     facilitatorsOnly: false,
   },
   {
-    usage: "join [named]",
-    summary: "opt in to be counted (add `named` to allow your name to be shown)",
+    usage: "join [counted|named]",
+    summary:
+      "opt in to be counted (`counted`, the default, is never named to others; `named` allows your name to be shown)",
     facilitatorsOnly: false,
   },
   {
@@ -43,8 +44,9 @@ export const HELP_ENTRIES: readonly HelpEntry[] = [
     facilitatorsOnly: false,
   },
   {
-    usage: "explain",
-    summary: "how to read every figure, and what they cannot tell",
+    usage: "explain [more]",
+    summary:
+      "how to read every figure, and what they cannot tell (`more`: the model behind them, by its technical names)",
     facilitatorsOnly: false,
   },
   {
@@ -55,7 +57,7 @@ export const HELP_ENTRIES: readonly HelpEntry[] = [
   {
     usage: "compare [A B]",
     summary:
-      "compare two periods, e.g. compare 2026-10-01..2026-10-28 2026-11-01..2026-11-28 (default: this window and the one before)",
+      "compare two periods, e.g. compare 2026-10-01..2026-10-28 2026-11-01..2026-11-28 (default: the last 28 days, or the channel's own number, against the same number of days before)",
     facilitatorsOnly: false,
   },
   {
@@ -88,6 +90,26 @@ export const HELP_ENTRIES: readonly HelpEntry[] = [
   },
   { usage: "help", summary: "this list", facilitatorsOnly: false },
 ];
+
+/** The command word of a help entry ("whatif" for "whatif cap <share>"). */
+function commandWord(entry: HelpEntry): string {
+  return entry.usage.split(" ")[0];
+}
+
+/** Every command word help lists, in its order. */
+export const COMMAND_WORDS: readonly string[] = [...new Set(HELP_ENTRIES.map(commandWord))];
+
+/**
+ * The one-line usage of one command: "/influence whatif cap <share>: what if …", with every form
+ * of it joined by "; " (check and check post). Null for a word that is no command.
+ */
+export function commandUsage(word: string): string | null {
+  const entries = HELP_ENTRIES.filter((e) => commandWord(e) === word.toLowerCase());
+  if (entries.length === 0) return null;
+  return entries
+    .map((e) => `/influence ${e.usage}: ${e.summary}${e.facilitatorsOnly ? " (facilitators)" : ""}`)
+    .join("; ");
+}
 
 /** Help as neutral blocks; `unknown` is the input that was not understood, if any. */
 export function helpBlocks(options: { unknown?: string } = {}): Block[] {

@@ -10,7 +10,7 @@ import type { ChannelSettings, Weekday } from "../domain/channel-settings.js";
 import type { ConsentLevel } from "../domain/events.js";
 import type { AnalysisReport } from "../domain/report.js";
 import { neededText, windowText } from "./digest-blocks.js";
-import { isoDay, percent, percentRange } from "./format.js";
+import { isoDay, percent, percentRange, probability } from "./format.js";
 import { plainReading } from "./reading.js";
 
 const WEEKDAYS: Record<Weekday, string> = {
@@ -73,7 +73,7 @@ export function meBlocks(args: MeArgs): Block[] {
       kind: "note",
       text:
         report.status === "ok"
-          ? `You are opted in as ${consentWords(consent)}, but you had no replies or mentions to or from other opted-in members in this window, so you have no share yet.`
+          ? `You are opted in as ${consentWords(consent)}, but you had no replies or mentions to or from other opted-in members in these days, so you have no share yet.`
           : `You are opted in as ${consentWords(consent)}. ${plainReading(report)}`,
     });
     return blocks;
@@ -103,13 +103,13 @@ export function meBlocks(args: MeArgs): Block[] {
   if (line !== null) {
     rows.push({
       label: `Above the ${percent(line)} line`,
-      value: `probability ${percent(entry.pAbove)}`,
+      value: `probability ${probability(entry.pAbove)}`,
     });
   }
   rows.push({
-    label: "Attention received",
+    label: "How much others turn to you",
     value: entry.attentionReceived.toFixed(2),
-    detail: "1.00 = you receive as much attention as you give",
+    detail: "1.00 = as much as you turn to them",
   });
   blocks.push({
     kind: "note",
@@ -144,14 +144,18 @@ export function settingsRows(settings: ChannelSettings): FigureRow[] {
           ? "the line: 30%, or twice an even share when that is larger"
           : "the line above which a balance note is posted",
     },
-    { label: "window", value: `${settings.windowDays} days`, detail: "how far back signals count" },
+    {
+      label: "window",
+      value: `${settings.windowDays} days`,
+      detail: "how many days of replies and mentions count",
+    },
     {
       label: "halflife",
       value: settings.halfLifeDays === 0 ? "0" : `${settings.halfLifeDays} days`,
       detail:
         settings.halfLifeDays === 0
-          ? "no decay: every day in the window counts the same"
-          : "a signal this old counts half",
+          ? "no fading: every counted day counts the same"
+          : "a reply or mention this old counts half as much as one from today",
     },
     { label: "digest", value: digest, detail: "the weekly balance digest" },
     { label: "timezone", value: settings.timezone, detail: "for the digest time" },
@@ -217,10 +221,10 @@ export function statusBlocks(args: StatusArgs): Block[] {
     },
     { label: "Your role", value: args.facilitator ? "facilitator" : "member" },
     { label: "Opted-in members", value: `${args.optedIn}` },
-    { label: "Window", value: windowText(report) },
+    { label: "Counting period", value: windowText(report) },
     {
-      label: "In the window",
-      value: `${report.members} active members, ${report.signals} signals`,
+      label: "In that period",
+      value: `${report.members} active member${report.members === 1 ? "" : "s"}, ${report.signals} ${report.signals === 1 ? "reply or mention" : "replies and mentions"}`,
     },
     {
       label: "Figures",

@@ -10,7 +10,7 @@ import type { AnalysisReport } from "../domain/report.js";
 import type { OutgoingMessage } from "../ports/chat-platform.js";
 import { CAUTIONS_LINE } from "./cautions.js";
 import { EXPLAIN_POINTER, windowText } from "./digest-blocks.js";
-import { decimal1, percent, percentRange } from "./format.js";
+import { decimal1, percent, percentRange, probability } from "./format.js";
 import { displayMember, type NamingPolicy } from "./naming.js";
 import { renderText } from "./render-text.js";
 
@@ -68,8 +68,8 @@ export function noteBlocks(args: NoteArgs): Block[] {
     blocks.push({
       kind: "note",
       text: line
-        ? `No member is above this channel's line of ${percent(line.threshold)} with enough certainty right now.`
-        : "There are no figures for this window, so there is no note to give.",
+        ? `No member is clearly above this channel's line of ${percent(line.threshold)} right now.`
+        : "There are no figures for these days, so there is no note to give.",
     });
     blocks.push({ kind: "cautions", text: CAUTIONS_LINE });
     return blocks;
@@ -78,11 +78,11 @@ export function noteBlocks(args: NoteArgs): Block[] {
   const subject = named ?? "One member's";
   blocks.push({
     kind: "note",
-    text: `${subject} influence share is above this channel's line of ${percent(line.threshold)}, with probability ${percent(line.probability)}. Their share is ${percent(entry.share)} (interval ${percentRange(entry.low, entry.high)}); an even split would give each of the ${report.members} active members ${percent(1 / report.members)}.`,
+    text: `${subject} influence share is above this channel's line of ${percent(line.threshold)}, with probability ${probability(line.probability)}. Their share is ${percent(entry.share)} (interval ${percentRange(entry.low, entry.high)}); an even split would give each of the ${report.members} active members ${percent(1 / report.members)}.`,
   });
   blocks.push({
     kind: "note",
-    text: `What it means: the channel's pooled view leans on one member's view, so what the others know counts for less. Right now the pooled view is worth about ${decimal1(report.effectiveVoices.value)} independent voices of ${report.members}.`,
+    text: `What it means: the channel's shared view leans on one member's view, so what the others know counts for less. Right now the channel's shared view is worth about ${decimal1(report.effectiveVoices.value)} independent voices of ${report.members}.`,
   });
   const lead =
     audience === "facilitators"

@@ -24,6 +24,7 @@ import { compareBlocks } from "./compare-blocks.js";
 import { explainBlocks } from "./explain-blocks.js";
 import { decimal1, percent } from "./format.js";
 import type { NamingPolicy } from "./naming.js";
+import { samePageLabels } from "./naming.js";
 import { summaryBlocks } from "./summary-blocks.js";
 
 /** The page's Content-Security-Policy: nothing may be fetched; only the inline style applies. */
@@ -56,7 +57,7 @@ function weekLabel(until: number): string {
   return new Date(until).toISOString().slice(5, 10);
 }
 
-function historyCharts(history: readonly WeeklyPoint[]): string {
+function historyCharts(history: readonly WeeklyPoint[], windowDays: number): string {
   if (history.length < 2 || history.every((p) => p.effectiveVoices === null)) {
     return "<p>Not enough weeks with figures yet for a trend.</p>";
   }
@@ -102,7 +103,7 @@ function historyCharts(history: readonly WeeklyPoint[]): string {
     reference: line === null ? null : { value: line, label: `line ${percent(line)}` },
     colour: CHART_COLOURS.line,
   });
-  return `<div class="charts">${figure(voices, "Effective voices: how many evenly heard voices the pooled view is worth, each week's 28-day window.")}${figure(top, "The largest single share each week; the dashed line is the line.")}</div>`;
+  return `<div class="charts">${figure(voices, `Effective voices: how many evenly heard voices the channel's shared view is worth, each week, counting the ${windowDays} days before it.`)}${figure(top, "The largest single share each week; the dashed line is the line.")}</div>`;
 }
 
 function compareSection(result: CompareReport, policy: NamingPolicy): string {
@@ -157,9 +158,11 @@ export function reportPage(input: ReportPageInput): string {
       ? `<section id="charts"><h2>Charts</h2><div class="charts">${shares}${map}</div></section>`
       : "",
     input.history
-      ? `<section id="history"><h2>Week by week</h2>${historyCharts(input.history)}</section>`
+      ? `<section id="history"><h2>Week by week</h2>${historyCharts(input.history, report.window.days)}</section>`
       : "",
-    input.compare ? compareSection(input.compare, policy) : "",
+    input.compare
+      ? compareSection(input.compare, samePageLabels(policy, report, input.compare))
+      : "",
     `<section id="how-to-read"><h2>How to read</h2>${blocksHtml(explainBlocks().slice(1))}</section>`,
     "</main></body></html>",
     "",

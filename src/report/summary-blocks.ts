@@ -7,8 +7,8 @@
 import type { Block, FigureRow } from "../domain/blocks.js";
 import type { AnalysisReport } from "../domain/report.js";
 import { CAUTIONS_LINE } from "./cautions.js";
-import { neededText, shareBars, structureText, windowText } from "./digest-blocks.js";
-import { decimal1, percent, percentRange, voicesOf } from "./format.js";
+import { neededText, RANK_LABELS, shareBars, structureText, windowText } from "./digest-blocks.js";
+import { decimal1, percent, percentRange, probability, voicesOf } from "./format.js";
 import { memberLabeller, type NamingPolicy } from "./naming.js";
 import { plainReading } from "./reading.js";
 
@@ -45,7 +45,11 @@ export function summaryBlocks(
   const label = memberLabeller(report.influence, policy);
   const ev = report.effectiveVoices;
   const rows: FigureRow[] = [
-    { label: "Active members", value: `${report.members}`, detail: `${report.signals} signals` },
+    {
+      label: "Active members",
+      value: `${report.members}`,
+      detail: `${report.signals} replies and mentions`,
+    },
     {
       label: "Effective voices",
       value: voicesOf(ev.value, report.members),
@@ -62,28 +66,32 @@ export function summaryBlocks(
       label: "Line",
       value: percent(report.line.threshold),
       detail: report.line.crossed
-        ? `crossed: ${aboveLine(label(report.line.member ?? ""))} with probability ${percent(report.line.probability)}`
-        : `not crossed; nobody is above it with probability ${percent(report.settings.confidence)} or more`,
+        ? `${aboveLine(label(report.line.member ?? ""))}, probability ${probability(report.line.probability)}`
+        : `nobody is above it with probability ${percent(report.settings.confidence)} or more`,
     });
   }
   rows.push({ label: "Structure", value: structureText(report) });
-  if (report.hhi !== null && report.concentration) {
-    rows.push({
-      label: "HHI (analogy)",
-      value: `${report.hhi}`,
-      detail: `would count as ${report.concentration === "moderate" ? "moderately concentrated" : report.concentration === "high" ? "highly concentrated" : "unconcentrated"} under the 2010 U.S. merger guidelines`,
-    });
-  }
+  // The concentration index (HHI) is a term of the trade: it stays in the CLI's --json and in
+  // `explain more`, not in a check (DESIGN.md §1).
   blocks.push({ kind: "note", text: plainReading(report) });
   blocks.push({ kind: "figures", rows });
-  const bars = shareBars(report, policy, options.maxBars ?? 20);
+  // "member k" is explained in a note of its own (the page shows the note but draws the bars).
+  const bars = shareBars(report, policy, options.maxBars ?? 20, false);
   if (bars) blocks.push(bars);
+  const labelsShown = [
+    ...(bars?.kind === "bars" ? bars.rows.map((r) => r.label) : []),
+    label(report.top.member),
+    ...(report.contributors ?? []).slice(0, 5).map((c) => label(c.member)),
+  ];
+  if (labelsShown.some((l) => /^member \d+$/.test(l))) {
+    blocks.push({ kind: "note", text: `${RANK_LABELS}.` });
+  }
   const groups = report.groups ?? report.clusters?.groups ?? null;
   // One cluster covering everyone says nothing: clusters are shown only when there are several.
   if (groups && (report.groups ? groups.length > 0 : groups.length > 1)) {
     const title = report.groups
       ? "Groups"
-      : `Clusters found in the replies (modularity ${report.clusters?.modularity.toFixed(2)}, unnamed)`;
+      : "Groups found in who answers whom (found by plumbline, not named by anyone)";
     blocks.push({
       kind: "figures",
       rows: [

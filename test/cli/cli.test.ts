@@ -92,18 +92,48 @@ describe("plumbline CLI", () => {
     ]);
     expect(whatif.code).toBe(0);
     expect(whatif.out).toContain("Capped at 25%");
+    // 25% and 0.25 are the same cap, in the CLI as in chat.
+    const percentCap = await run([
+      "whatif",
+      demoLogPath,
+      "--cap",
+      "25%",
+      "--until",
+      "2026-11-01",
+      "--samples",
+      "50",
+    ]);
+    expect(percentCap.out).toBe(whatif.out);
+  });
+
+  it("compare without ranges takes the last 28 whole days and the 28 before, sharing no day", async () => {
+    const result = await run(["compare", demoLogPath, "--samples", "50", "--json"]);
+    expect(result.code).toBe(0);
+    const { a, b } = JSON.parse(result.out) as { a: { range: string }; b: { range: string } };
+    // The demo's last event is in the week of 2026-11-23; B ends on that day, A the day before B.
+    const [aFrom, aTo] = a.range.split("..");
+    const [bFrom, bTo] = b.range.split("..");
+    const day = 86_400_000;
+    expect(Date.parse(bFrom) - Date.parse(aTo)).toBe(day);
+    expect((Date.parse(aTo) - Date.parse(aFrom)) / day + 1).toBe(28);
+    expect((Date.parse(bTo) - Date.parse(bFrom)) / day + 1).toBe(28);
   });
 
   it.each([
     [["analyze"], "ARG_MISSING", "usage: plumbline analyze"],
-    [["analyze", demoLogPath, "--window", "0"], "ARG_BAD_VALUE", "whole number from 1 to 365"],
+    [["analyze", demoLogPath, "--window", "0"], "ARG_BAD_VALUE", "whole number from 7 to 365"],
     [["analyze", demoLogPath, "--self-weight", "1"], "ARG_BAD_VALUE", "below 1"],
     [["analyze", demoLogPath, "--threshold", "high"], "ARG_BAD_VALUE", "0.05"],
     [["analyze", demoLogPath, "--frobnicate"], "ARG_UNKNOWN", "unknown flag --frobnicate"],
     [["analyze", demoLogPath, "--until", "yesterday"], "ARG_BAD_VALUE", "ISO 8601"],
     [["analyze", "/nonexistent/log.jsonl"], "LOG_UNREADABLE", "/nonexistent/log.jsonl"],
     [["compare", demoLogPath, "--a", "2026-11-01"], "ARG_MISSING", "--b"],
-    [["whatif", demoLogPath, "--cap", "2"], "ARG_BAD_VALUE", "between 0 and 1"],
+    [["whatif", demoLogPath, "--cap", "2"], "ARG_BAD_VALUE", "above 0 and at most 1"],
+    [["whatif", demoLogPath, "--cap", "120%"], "ARG_BAD_VALUE", "above 0 and at most 1"],
+    [["analyze", demoLogPath, "--threshold", "4%"], "ARG_BAD_VALUE", '--threshold "4%"'],
+    [["analyz", demoLogPath], "ARG_UNKNOWN", 'did you mean "analyze"? Usage: plumbline analyze'],
+    [["comapre"], "ARG_UNKNOWN", 'did you mean "compare"? Usage: plumbline compare'],
+    [["frobnicate"], "ARG_UNKNOWN", 'unknown command "frobnicate". Run "plumbline help"'],
   ])("bad input %j exits 2 with one line naming the fix", async (argv, code, text) => {
     const result = await run(argv as string[]);
     expect(result.code).toBe(2);

@@ -38,11 +38,11 @@ describe("check", () => {
     const shares = [10, 6, 4, 6, 9].map((x) => x / 35);
     const voices = 1 / shares.reduce((s, x) => s + x * x, 0); // 1225 / 269 ≈ 4.55
     const text = (await r.run("UBO", "check")).message.text;
-    expect(text).toMatch(/Active members\s+5\s+\(30 signals\)/);
+    expect(text).toMatch(/Active members\s+5\s+\(30 replies and mentions\)/);
     expect(text).toContain(`Effective voices  ${voices.toFixed(1)} of 5`);
     expect(text).toContain(`Largest share     ${Math.round(shares[0] * 100)}%`);
     const me = (await r.run("UCY", "me")).message.text;
-    expect(me).toContain(`Your share          ${Math.round(shares[2] * 100)}%, interval`);
+    expect(me).toMatch(new RegExp(`Your share\\s+${Math.round(shares[2] * 100)}%, interval`));
     expect(me).toContain("5th of 5");
   });
 
@@ -78,12 +78,13 @@ describe("check", () => {
 });
 
 describe("compare and whatif", () => {
-  it("compare defaults to this window against the one before", async () => {
+  it("compare defaults to the last 28 whole days against the 28 before, sharing no day", async () => {
     const r = await busyChannel();
     const text = (await r.run("UBO", "compare")).message.text;
-    // now = 2026-11-22 09:00 UTC, window 28 days.
-    expect(text).toContain("A 2026-09-27..2026-10-25");
-    expect(text).toContain("B 2026-10-25..2026-11-22");
+    // now = 2026-11-22 09:00 UTC, 28 days: B is 2026-10-26 to 2026-11-22 (28 days, both ends
+    // included), A the 28 days before it, ending 2026-10-25.
+    expect(text).toContain("A 2026-09-28..2026-10-25");
+    expect(text).toContain("B 2026-10-26..2026-11-22");
     expect(text).toContain("too little data");
   });
 
@@ -98,17 +99,20 @@ describe("compare and whatif", () => {
       .message.text;
     expect(bad).toContain("is not a calendar date");
     expect(bad).toContain("YYYY-MM-DD..YYYY-MM-DD");
-    expect((await r.run("UBO", "compare 2026-11-01..2026-11-22")).message.text).toContain(
-      "two periods, or none",
-    );
+    const one = (await r.run("UBO", "compare 2026-11-01..2026-11-22")).message.text;
+    expect(one).toContain("two periods, or none; you gave one");
+    expect(one).toContain("/influence compare [A B]:");
   });
 
   it("whatif cap evens out the shares; an infeasible cap names the smallest one", async () => {
     const r = await busyChannel();
     const text = (await r.run("UBO", "whatif cap 25%")).message.text;
     expect(text).toContain("Capped at 25%");
-    const change = /Effective voices would change by ([+−])/.exec(text);
+    const change =
+      /Effective voices would change by ([+−])(\d+\.\d) \((\d+\.\d) → (\d+\.\d)\)/.exec(text);
     expect(change?.[1]).toBe("+");
+    // The change printed is the difference of the two figures printed beside it.
+    expect(Number(change?.[2])).toBeCloseTo(Number(change?.[4]) - Number(change?.[3]), 9);
     // Six members: no cap below an even split over the other five (20%) is possible.
     const infeasible = (await r.run("UBO", "whatif cap 0.1")).message.text;
     expect(infeasible).toContain("at least 0.2000");
@@ -130,19 +134,48 @@ describe("help, unknown input and explain", () => {
   });
 
   it.each([
-    "frobnicate",
-    "check banana",
-    "me now",
-    "whatif",
-    "facilitator promote UCY",
-    "constructor",
-    "__proto__",
-  ])("unknown input %j gets the help text", async (input) => {
+    ["chek", "check"],
+    ["chekc", "check"],
+    ["staus", "status"],
+    ["comapre", "compare"],
+    ["whatfi", "whatif"],
+    ["setings", "settings"],
+    ["hlep", "help"],
+  ])("a misspelt command %j gets one line: did you mean %j, and its usage", async (input, near) => {
     const r = await runner();
-    const response = await r.run("UBO", input);
+    const response = await r.run("UBO", `${input} post`);
     expect(response.visibility).toBe("private");
-    expect(response.message.text).toContain(`I did not understand "${input}"`);
-    expect(response.message.text).toContain("/influence help");
+    const text = response.message.text.trim();
+    expect(text.split("\n")).toHaveLength(1);
+    expect(text).toContain(`did you mean \`${near}\`?`);
+    expect(text).toContain(`/influence ${near}`);
+    expect(text).not.toContain("/influence leave");
+  });
+
+  it.each(["frobnicate", "constructor", "__proto__", "xy"])(
+    "input %j far from every command points to help, in one line",
+    async (input) => {
+      const r = await runner();
+      const text = (await r.run("UBO", input)).message.text.trim();
+      expect(text).toBe(
+        `There is no command "${input}". /influence help lists every command in one line each.`,
+      );
+    },
+  );
+
+  it.each([
+    ["check banana", "check"],
+    ["me now", "me"],
+    ["whatif", "whatif"],
+    ["whatif 25%", "whatif"],
+    ["facilitator promote UCY", "facilitator"],
+  ])("a known command with the wrong words (%j) gets that command's usage", async (input, name) => {
+    const r = await runner();
+    const text = (await r.run("UBO", input)).message.text.trim();
+    expect(text.split("\n")).toHaveLength(1);
+    const usage = HELP_ENTRIES.filter((e) => e.usage.split(" ")[0] === name);
+    for (const e of usage) expect(text).toContain(`/influence ${e.usage}: ${e.summary}`);
+    expect(text).not.toContain("/influence leave");
   });
 
   it("explain covers every figure, the model's assumptions and the full cautions", async () => {
@@ -154,10 +187,8 @@ describe("help, unknown input and explain", () => {
       "Effective voices",
       "Balance",
       "Line",
-      "Structure",
-      "Background attention",
-      "Self-weight",
-      "never the shares",
+      "Digest",
+      "Note",
       "independent opinions",
       "Silence is not agreement",
       "rough proxy",
@@ -165,5 +196,10 @@ describe("help, unknown input and explain", () => {
       expect(text).toContain(term);
     }
     for (const caution of CAUTIONS_FULL) expect(text).toContain(caution);
+    const more = (await r.run("UBO", "explain more")).message.text;
+    for (const term of ["DeGroot", "stationary vector", "Background attention", "Self-weight"]) {
+      expect(text).not.toContain(term);
+      expect(more).toContain(term);
+    }
   });
 });

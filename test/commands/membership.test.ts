@@ -22,8 +22,9 @@ describe("join", () => {
     const response = await r.run("UBO", "join", { now: T0 });
     const text = response.message.text;
     expect(response.visibility).toBe("private");
-    // The notice comes first and covers what the issue asks for.
-    expect(text.indexOf("Before you join")).toBe(0);
+    // The notice comes first, headed as what it is in this answer: the join has been recorded.
+    expect(text.indexOf("You have joined: what plumbline counts")).toBe(0);
+    expect(text).not.toContain("Before you join");
     for (const part of [
       "replies and mentions",
       "never stored",
@@ -51,6 +52,7 @@ describe("join", () => {
     await r.run("UANA", "join named", { now: T0 });
     const again = await r.run("UANA", "join named", { now: T0 + 1000 });
     expect(again.message.text).toContain("already in as named");
+    expect(again.message.text.indexOf("You are already in: what plumbline counts")).toBe(0);
     const snapshot = await r.store.loadSnapshot(CHANNEL);
     expect(snapshot.consent).toHaveLength(1);
     expect(snapshot.consent[0].member).toBe("UANA");
@@ -65,7 +67,7 @@ describe("join", () => {
   it("join with an unknown word is refused and records nothing", async () => {
     const r = await runner();
     const response = await r.run("UBO", "join loudly");
-    expect(response.message.text).toContain('takes nothing, or "named"; not "loudly"');
+    expect(response.message.text).toContain('takes nothing, "counted" or "named"; not "loudly"');
     expect((await r.store.loadSnapshot(CHANNEL)).consent).toHaveLength(0);
   });
 
@@ -150,7 +152,7 @@ describe("me and status", () => {
     expect(text).toContain("named (counted; your name may be shown) since 2026-11-04");
     expect(text).toContain(`notice ${CONSENT_NOTICE_VERSION}`);
     expect(text).toMatch(/Opted-in members\s+7/);
-    expect(text).toMatch(/In the window\s+6 active members, 42 signals/);
+    expect(text).toMatch(/In that period\s+6 active members, 42 replies and mentions/);
     expect(text).toMatch(/Your role\s+member/);
     expect(text).toMatch(/window\s+28 days/);
     expect((await r.run("UBOSS", "status")).message.text).toMatch(/Your role\s+facilitator/);
@@ -165,7 +167,9 @@ describe("too little data explains itself with numbers", () => {
     await mentions(r.store, { from: "UBO", to: "UCY", times: 3, at: T0 + DAY });
     // 3 active members and 7 signals; the defaults need 5 members and 20 signals.
     const check = (await r.run("UANA", "check")).message.text;
-    expect(check).toContain("3 active opted-in members and 7 signals");
+    expect(check).toContain(
+      "3 active opted-in members and 7 replies or mentions between them in these 28 days",
+    );
     expect(check).toContain("2 more opted-in members taking part");
     expect(check).toContain("13 more replies or mentions");
     const me = (await r.run("UANA", "me")).message.text;

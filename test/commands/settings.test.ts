@@ -43,11 +43,41 @@ describe("set: accepted values", () => {
   ])("set %s", async (text, change) => {
     const r = await runner();
     const response = await r.run("UBOSS", `set ${text}`);
-    expect(response.message.text).toMatch(/^Set /);
-    expect(await readChannelSettings(r.store, CHANNEL)).toEqual({
-      ...DEFAULT_CHANNEL_SETTINGS,
-      ...change,
-    });
+    const expected = { ...DEFAULT_CHANNEL_SETTINGS, ...change };
+    // A value the channel already has changes nothing, and the answer says so.
+    const same = JSON.stringify(expected) === JSON.stringify(DEFAULT_CHANNEL_SETTINGS);
+    expect(response.message.text).toMatch(
+      same ? / is already .*\. Nothing was changed\./ : /^Set /,
+    );
+    expect(await readChannelSettings(r.store, CHANNEL)).toEqual(expected);
+  });
+
+  it('a no-op says the value is already set, never "(was 40%)" for 40%', async () => {
+    const r = await runner();
+    expect((await r.run("UBOSS", "set threshold 40%")).message.text).toContain(
+      "Set threshold to 40% (was auto)",
+    );
+    const again = (await r.run("UBOSS", "set threshold 0.4")).message.text.trim();
+    expect(again).toBe("The setting threshold is already 40%. Nothing was changed.");
+  });
+});
+
+describe("set: a missing value or a misspelt key gets that setting's usage", () => {
+  it.each([
+    ["window", '"set window" needs a value. /influence set window <value>: a whole number of days'],
+    ["threshold", '"set threshold" needs a value. /influence set threshold <value>: auto, or a'],
+    ["", '"set" needs a key and a value. /influence set <key> <value>:'],
+    ["windw 21", "did you mean `window`? /influence set window <value>:"],
+    ["treshold 30%", "did you mean `threshold`? /influence set threshold <value>:"],
+    ["halflfie 7", "did you mean `halflife`?"],
+    ["minmember 4", "did you mean `minmembers`?"],
+  ])("set %j", async (text, said) => {
+    const r = await runner();
+    const response = (await r.run("UBOSS", `set ${text}`.trim())).message.text;
+    expect(response).toContain(said);
+    expect(response).not.toMatch(/cannot be nothing/i);
+    expect(response).toContain("Nothing was changed");
+    expect(await readChannelSettings(r.store, CHANNEL)).toEqual(DEFAULT_CHANNEL_SETTINGS);
   });
 });
 
@@ -73,7 +103,7 @@ describe("set: bad values are refused with the allowed range, and nothing change
     ["minmembers 2", "from 3 to 50"],
     ["minmembers 51", "from 3 to 50"],
     ["minmembers 4.5", "from 3 to 50"],
-    ["colour blue", "The keys are: threshold"],
+    ["colour blue", "The keys are threshold, window"],
   ])("set %s", async (text, allowed) => {
     const r = await runner();
     await r.run("UBOSS", "set window 21");

@@ -60,7 +60,7 @@ describe("console scenarios", () => {
     await h.type(...joins(["ana", "bo", "cy"]), "ana> hi @bo", "bo> hi @cy", "ana> /influence");
     const answer = h.platform.posts.at(-1);
     expect(answer?.privateTo).toBe("ana");
-    expect(answer?.text).toContain("3 active opted-in members and 2 signals");
+    expect(answer?.text).toContain("3 active opted-in members and 2 replies or mentions");
     expect(answer?.text).toContain("2 more opted-in members taking part");
     expect(answer?.text).toContain("18 more replies or mentions");
   });

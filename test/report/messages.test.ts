@@ -11,6 +11,7 @@ import { CAUTIONS_FULL, CAUTIONS_LINE } from "../../src/report/cautions.js";
 import { consentNoticeBlocks } from "../../src/report/consent-notice.js";
 import { digestMessage } from "../../src/report/digest-blocks.js";
 import { explainMessage } from "../../src/report/explain-blocks.js";
+import { probability } from "../../src/report/format.js";
 import { helpMessage } from "../../src/report/help-text.js";
 import { noteMessage, suggestedCap } from "../../src/report/note-blocks.js";
 import { renderText } from "../../src/report/render-text.js";
@@ -85,7 +86,7 @@ describe("digestMessage", () => {
     ]);
     const report = analyzeSnapshot(snapshotOf(events), exact);
     const text = digestMessage({ report, previous: null, policy: { namesOn: false } }).text;
-    expect(text).toContain("3 active opted-in members and 5 signals");
+    expect(text).toContain("3 active opted-in members and 5 replies or mentions");
     expect(text).toContain("2 more opted-in members taking part and 15 more replies or mentions");
     expect(text).toContain(CAUTIONS_LINE);
     expect(text).not.toMatch(/Effective voices/);
@@ -98,7 +99,7 @@ describe("noteMessage", () => {
     expect(report.line?.crossed).toBe(true);
     const text = noteMessage({ report, policy: { namesOn: false }, audience: "channel" }).text;
     expect(text).toContain("One member's influence share is above this channel's line");
-    expect(text).toContain(`probability ${Math.round((report.line?.probability ?? 0) * 100)}%`);
+    expect(text).toContain(`probability ${probability(report.line?.probability ?? 0)}`);
     expect(text).toContain("This note names nobody");
     expect(text).toContain("/influence whatif cap 0.25");
     expect(text).toContain(CAUTIONS_LINE);
@@ -142,7 +143,7 @@ describe("noteMessage", () => {
       exact,
     );
     const text = noteMessage({ report, policy: { namesOn: false }, audience: "channel" }).text;
-    expect(text).toContain("No member is above this channel's line of 40%");
+    expect(text).toContain("No member is clearly above this channel's line of 40%");
   });
 
   it("suggests a cap no lower than an even split over the others", () => {
@@ -162,6 +163,7 @@ describe("how to read, consent notice and help", () => {
 
   it("the consent notice says what is never stored and how to leave", () => {
     const text = renderText(consentNoticeBlocks());
+    expect(text.startsWith("What plumbline counts")).toBe(true);
     expect(text).toContain("never stored");
     expect(text).toContain("/influence leave");
     expect(text).toContain("HR decision");
