@@ -6,7 +6,6 @@
  * routes plus `/healthz` (liveness) and `/readyz` (readiness: store writable, schema current, any
  * added probe such as the worker pool's), the scheduler (digests and notes) and the daily retention purge.
  */
-import { randomBytes } from "node:crypto";
 import type { Server } from "node:http";
 import pino from "pino";
 import { type Config, loadConfig } from "../src/config/load-config.js";
@@ -24,6 +23,9 @@ import { type ReadinessProbe, readiness, watchWrites } from "./readiness.js";
 import { createReportRoute } from "./report-route.js";
 import { createRouteServer, listen, type ServerLimits } from "./route-server.js";
 import { RoutingPlatform } from "./routing-platform.js";
+
+/** The name of the report-link secret in the store. */
+export const REPORT_SECRET_NAME = "report-links";
 
 export interface RunningServer {
   readonly server: Server;
@@ -88,6 +90,8 @@ export async function serve(options: ServeOptions): Promise<RunningServer> {
     ...(options.cwd ? { cwd: options.cwd } : {}),
     ...(config.idKey ? { idKey: config.idKey } : {}),
     ...(config.idKeyFile ? { idKeyFile: config.idKeyFile } : {}),
+    connectTimeoutMs: config.pgConnectTimeoutMs,
+    statementTimeoutMs: config.pgStatementTimeoutMs,
   });
   const watched = watchWrites(options.wrapStore ? options.wrapStore(opened) : opened, clock);
   const store = watched.store;
@@ -95,15 +99,17 @@ export async function serve(options: ServeOptions): Promise<RunningServer> {
   const platform = new RoutingPlatform(
     adapters.map((a) => ({ prefix: a.channelPrefix, platform: a.platform })),
   );
+  // Without PLUMBLINE_REPORT_SECRET the secret is kept in the store, so every replica of one
+  // database (and a restarted one) accepts the links any of them made.
   if (config.reportSecret === null) {
     logger.info(
       {},
-      "PLUMBLINE_REPORT_SECRET is not set: report links last until this process restarts",
+      "PLUMBLINE_REPORT_SECRET is not set: report links are signed with a secret kept in the store",
     );
   }
   const reports = createReportRoute({
     store,
-    secret: config.reportSecret ?? randomBytes(32).toString("hex"),
+    secret: config.reportSecret ?? (await store.sharedSecret(REPORT_SECRET_NAME)),
     clock,
     facilitators: config.facilitators,
     displayName: (id) => platform.displayName(id),

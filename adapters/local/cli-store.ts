@@ -4,8 +4,11 @@
  * (message ids, or a hash of any other event, are the delivery keys, so a second import changes
  * nothing), `plumbline migrate` brings the schema up to date, `plumbline purge` enforces
  * retention. `--db` overrides DATABASE_URL (default sqlite:./data/plumbline.db); the member id key
- * comes from PLUMBLINE_ID_KEY or PLUMBLINE_ID_KEY_FILE. A user error prints one line naming the
- * problem and the fix and exits with code 2.
+ * comes from PLUMBLINE_ID_KEY or PLUMBLINE_ID_KEY_FILE, and must be the key the store was created
+ * with (else exit 2 naming what to restore). An event the store cannot apply is counted as
+ * "n rejected: CODE" and the import goes on. PostgreSQL timeouts: PLUMBLINE_PG_CONNECT_TIMEOUT_MS
+ * (default 5000) and PLUMBLINE_PG_STATEMENT_TIMEOUT_MS (default 30000). A user error prints one
+ * line naming the problem and the fix and exits with code 2.
  */
 import { resolve } from "node:path";
 import { parseIsoTime } from "../../src/attention/parse-iso-time.js";
@@ -53,8 +56,12 @@ export async function runIngest(argv: readonly string[], io: CliIo): Promise<num
     const deliveries = events.map((event) => ({ event, deliveryKey: logDeliveryKey(event) }));
     const totals = await ingestBatch(store, deliveries, { batchSize: 500 });
     const bad = skipped.length > 0 ? `, ${skipped.length} bad lines skipped` : "";
+    const rejected = Object.entries(totals.rejected)
+      .sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0))
+      .map(([code, n]) => `, ${n} rejected: ${code}`)
+      .join("");
     io.stdout(
-      `ingested ${log} into ${redact(url)}: ${events.length} events, ${totals.applied} applied, ${totals.skipped} already seen${bad}\n`,
+      `ingested ${log} into ${redact(url)}: ${events.length} events, ${totals.applied} applied, ${totals.skipped} already seen${rejected}${bad}\n`,
     );
   } finally {
     await store.close();
@@ -125,11 +132,32 @@ export function databaseUrl(flag: unknown, io: CliIo): string {
 
 export function storeOptions(io: CliIo): OpenStoreOptions {
   const { PLUMBLINE_ID_KEY: idKey, PLUMBLINE_ID_KEY_FILE: idKeyFile } = io.env;
+  const connect = milliseconds(io.env, "PLUMBLINE_PG_CONNECT_TIMEOUT_MS");
+  const statement = milliseconds(io.env, "PLUMBLINE_PG_STATEMENT_TIMEOUT_MS");
   return {
     cwd: io.cwd,
     ...(idKey ? { idKey } : {}),
     ...(idKeyFile ? { idKeyFile: resolve(io.cwd, idKeyFile) } : {}),
+    ...(connect === undefined ? {} : { connectTimeoutMs: connect }),
+    ...(statement === undefined ? {} : { statementTimeoutMs: statement }),
   };
+}
+
+/** A positive whole number of milliseconds from the environment, or undefined when unset. */
+function milliseconds(env: CliIo["env"], name: string): number | undefined {
+  const raw = env[name];
+  if (raw === undefined || raw === "") return undefined;
+  const value = Number(raw);
+  if (!Number.isInteger(value) || value <= 0) {
+    throw new PlumblineError(
+      "ARG_BAD_VALUE",
+      `${name} must be a whole number of milliseconds > 0, got "${raw}"`,
+      {
+        hint: `e.g. ${name}=${name.includes("CONNECT") ? 5000 : 30000}, or unset it for the default`,
+      },
+    );
+  }
+  return value;
 }
 
 function noPositionals(positionals: readonly string[], usage: string): void {
@@ -166,6 +194,6 @@ function parseNow(raw: string): number {
 }
 
 /** The URL without its password, for output. */
-function redact(url: string): string {
+export function redact(url: string): string {
   return url.replace(/^(postgres(?:ql)?:\/\/[^:/@]+):[^@]*@/, "$1:***@");
 }

@@ -10,6 +10,7 @@ import { runAnalyze, runCompare, runWhatIf } from "./cli-analyze.js";
 import { runConsole } from "./cli-console.js";
 import { runDemo } from "./cli-demo.js";
 import type { CliIo } from "./cli-io.js";
+import { runRekey } from "./cli-rekey.js";
 import { runReport } from "./cli-report.js";
 import { runServe } from "./cli-serve.js";
 import { runIngest, runMigrate, runPurge } from "./cli-store.js";
@@ -51,6 +52,11 @@ const COMMANDS: Record<string, { run: Command; summary: string; about: string }>
     run: runPurge,
     summary: "purge [--db URL]",
     about: "drop signals past retention (91 days) and old delivery keys",
+  },
+  rekey: {
+    run: runRekey,
+    summary: "rekey --new-key-file F [--db URL]",
+    about: "rotate the member id key: re-key every row in one transaction",
   },
   console: {
     run: runConsole,

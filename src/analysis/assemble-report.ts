@@ -22,7 +22,7 @@ import { centralInterval, shareAtOrAbove } from "../influence/interval.js";
 /** Fields every report has, whatever the data. */
 export type ReportFrame = Pick<
   AnalysisReport,
-  "version" | "channel" | "window" | "settings" | "members" | "signals"
+  "version" | "channel" | "window" | "settings" | "members" | "signals" | "broadcasts"
 > & { readonly threshold: number; readonly confidence: number; readonly interval: number };
 
 const NO_FIGURES = {
@@ -77,6 +77,7 @@ export function reportFrame(args: {
     },
     members: args.input.counts.members.length,
     signals: args.input.signals,
+    broadcasts: args.input.broadcasts ?? 0,
     threshold: args.threshold,
     confidence: settings.confidence,
     interval: settings.interval,

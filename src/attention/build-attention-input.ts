@@ -38,6 +38,7 @@ export function buildAttentionInput(
   return {
     counts,
     signals: set.count,
+    broadcasts: set.broadcasts,
     closedGroups: findClosedGroups(counts),
     named: set.named,
     labels: set.labels,

@@ -6,11 +6,12 @@
  * (rule 6). Nothing of a message's text exists here: only who wrote to, answered and mentioned whom.
  */
 import type { ChatEvent, ConsentLevel, MessageEvent } from "../domain/events.js";
-import type {
-  ConsentChange,
-  GroupChange,
-  LedgerMessage,
-  LedgerSnapshot,
+import {
+  type ConsentChange,
+  type GroupChange,
+  isBroadcast,
+  type LedgerMessage,
+  type LedgerSnapshot,
 } from "../domain/ledger.js";
 import { ConsentTimeline, compareIds, GroupTimeline, isConsenting } from "./timeline.js";
 
@@ -21,6 +22,7 @@ interface StoredMessage {
   readonly parentAuthor: string | null;
   mentions: readonly string[];
   deleted: boolean;
+  broadcast: boolean;
 }
 
 /** Applies one channel's events by rules 1–5 of docs/event-semantics.md. */
@@ -64,7 +66,10 @@ export class ChannelLedger {
       case "edit": {
         const stored = this.messages.get(event.id);
         if (stored !== undefined) {
-          stored.mentions = this.filterMentions(event.mentions, stored.author, stored.at);
+          stored.broadcast = isBroadcast(event.mentions, stored.author);
+          stored.mentions = stored.broadcast
+            ? Object.freeze([])
+            : this.filterMentions(event.mentions, stored.author, stored.at);
         }
         return;
       }
@@ -109,6 +114,7 @@ export class ChannelLedger {
           parentAuthor: stored.parentAuthor,
           mentions: stored.mentions,
           deleted: stored.deleted,
+          ...(stored.broadcast ? { broadcast: true } : {}),
         }),
       );
     }
@@ -135,13 +141,17 @@ export class ChannelLedger {
     ) {
       parentAuthor = null;
     }
+    const broadcast = isBroadcast(event.mentions ?? [], event.author);
     this.messages.set(event.id, {
       id: event.id,
       author: event.author,
       at: event.at,
       parentAuthor,
-      mentions: this.filterMentions(event.mentions ?? [], event.author, event.at),
+      mentions: broadcast
+        ? Object.freeze([])
+        : this.filterMentions(event.mentions ?? [], event.author, event.at),
       deleted: false,
+      broadcast,
     });
   }
 

@@ -30,6 +30,11 @@ export interface SignalSet {
   readonly signals: readonly Signal[];
   /** Number of signals, before decay (DESIGN.md §5 `signals`). */
   readonly count: number;
+  /**
+   * Messages in the window, by a member consenting at `until`, that were broadcasts (more than
+   * 50 members mentioned: only their reply signal counts, DESIGN.md §4.2).
+   */
+  readonly broadcasts: number;
   /** Active members (rule 8), sorted ascending. */
   readonly members: readonly string[];
   /** Per active member: consent at `until` is `named`. */
@@ -72,10 +77,12 @@ export function collectSignals(snapshot: LedgerSnapshot, params: SignalParams): 
 
   const signals: Signal[] = [];
   const active = new Set<string>();
+  let broadcasts = 0;
   for (const message of snapshot.messages) {
     if (message.deleted || message.at <= from || message.at > until) continue;
     if (!consenting(message.author)) continue;
     active.add(message.author);
+    if (message.broadcast === true) broadcasts++;
     const decay = halfLifeMs === 0 ? 1 : 0.5 ** ((until - message.at) / halfLifeMs);
     const push = (to: string, kind: SignalKind, base: number): void => {
       signals.push({ from: message.author, to, kind, weight: base * decay, at: message.at });
@@ -99,6 +106,7 @@ export function collectSignals(snapshot: LedgerSnapshot, params: SignalParams): 
   return {
     signals,
     count: signals.length,
+    broadcasts,
     members,
     named: members.map((member) => timeline.levelAt(member, until) === "named"),
     labels: members.map((member) => groups.labelAt(member, until)),

@@ -119,6 +119,8 @@ export const ENV_FIELDS = {
   ),
   HOST: text(),
   PORT: wholeNumber(0, 65535, DEFAULT_PORT), // 0: any free port (tests),
+  PLUMBLINE_PG_CONNECT_TIMEOUT_MS: wholeNumber(1, 600_000, 5000),
+  PLUMBLINE_PG_STATEMENT_TIMEOUT_MS: wholeNumber(1, 3_600_000, 30_000),
   LOG_LEVEL: oneOf(LOG_LEVELS),
   PLUMBLINE_REPLICA_ID: matching(/^\S+$/, "must not contain spaces"),
   PLUMBLINE_REPORT_SECRET: text().refine((v) => v === undefined || v.length >= 16, {

@@ -39,6 +39,9 @@ export interface Config {
   /** PLUMBLINE_ID_KEY; null: the store reads `idKeyFile` or its own key file. */
   readonly idKey: string | null;
   readonly idKeyFile: string | null;
+  /** PostgreSQL connect and statement timeouts, ms (defaults 5000 and 30000). */
+  readonly pgConnectTimeoutMs: number;
+  readonly pgStatementTimeoutMs: number;
   /** Platform ids who are facilitators of every channel. */
   readonly facilitators: readonly string[];
   readonly retentionDays: number;
@@ -107,6 +110,8 @@ export function loadConfig(
     databaseUrl: e.DATABASE_URL ?? DEFAULT_DATABASE_URL,
     idKey: e.PLUMBLINE_ID_KEY ?? null,
     idKeyFile: e.PLUMBLINE_ID_KEY_FILE ?? null,
+    pgConnectTimeoutMs: e.PLUMBLINE_PG_CONNECT_TIMEOUT_MS,
+    pgStatementTimeoutMs: e.PLUMBLINE_PG_STATEMENT_TIMEOUT_MS,
     facilitators: Object.freeze(e.PLUMBLINE_FACILITATORS),
     retentionDays: e.PLUMBLINE_RETENTION_DAYS,
     host: e.HOST ?? DEFAULT_HOST,

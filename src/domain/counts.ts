@@ -23,6 +23,8 @@ export interface AttentionInput {
   readonly counts: CountMatrix;
   /** Signals counted, before decay. */
   readonly signals: number;
+  /** Broadcast messages in the window (reply signal only, DESIGN.md §4.2); absent = 0. */
+  readonly broadcasts?: number;
   /**
    * Closed groups of the β = 0 view (support of C plus even rows for members with no outgoing
    * signal): strongly connected components with no outgoing edge, each sorted, sorted by first index.

@@ -23,6 +23,12 @@ export type ErrorCode =
   | "STORE_UNAVAILABLE"
   | "STORE_BAD_URL"
   | "STORE_NO_ID_KEY"
+  | "STORE_KEY_MISMATCH"
+  | "STORE_READ_ONLY"
+  | "STORE_TLS"
+  | "STORE_TOO_LARGE"
+  | "STORE_REJECTED"
+  | "STORE_BAD_DATA"
   | "CONFIG_INVALID";
 
 export class PlumblineError extends Error {

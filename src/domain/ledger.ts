@@ -17,6 +17,22 @@ export interface LedgerMessage {
   /** Distinct mentioned members other than the author, consenting at `at`, sorted. */
   readonly mentions: readonly string[];
   readonly deleted: boolean;
+  /**
+   * Present (true) when the message mentioned more than `BROADCAST_MENTIONS` distinct members
+   * besides its author: a broadcast yields its reply signal only (DESIGN.md §4.2), so its
+   * mentions are not kept.
+   */
+  readonly broadcast?: boolean;
+}
+
+/** A message mentioning more distinct members than this (author aside) is a broadcast. */
+export const BROADCAST_MENTIONS = 50;
+
+/** True when `mentions` name more than BROADCAST_MENTIONS distinct members besides the author. */
+export function isBroadcast(mentions: readonly string[], author: string): boolean {
+  const distinct = new Set(mentions);
+  distinct.delete(author);
+  return distinct.size > BROADCAST_MENTIONS;
 }
 
 export interface ConsentChange {

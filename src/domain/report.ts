@@ -69,6 +69,8 @@ export interface AnalysisReport {
   readonly members: number;
   /** Signals before decay. */
   readonly signals: number;
+  /** Messages in the window that mentioned more than 50 members: their mentions are not counted. */
+  readonly broadcasts: number;
   readonly sufficient: boolean;
   /** When not sufficient: how many more active members and signals are needed (0 = enough). */
   readonly needed: { readonly members: number; readonly signals: number } | null;

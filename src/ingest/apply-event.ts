@@ -6,6 +6,7 @@
  * message's own time, deletes and undeletes flip a mark. Member ids become member keys first.
  */
 import type { ChatEvent, ConsentLevel, MessageEvent } from "../domain/events.js";
+import { BROADCAST_MENTIONS, isBroadcast } from "../domain/ledger.js";
 import type { StoreTx } from "../ports/store.js";
 
 export interface ApplyContext {
@@ -39,13 +40,17 @@ export async function applyEvent(ctx: ApplyContext, event: ChatEvent): Promise<v
     case "edit": {
       const stored = await tx.findMessage(event.channel, event.id);
       if (stored === null) return;
-      const mentions = await filterMentions(ctx, {
-        channel: event.channel,
-        mentions: event.mentions.map(memberKey),
-        author: stored.author,
-        at: stored.at,
-      });
-      await tx.setMentions(event.channel, event.id, mentions);
+      const keys = event.mentions.map(memberKey);
+      const broadcast = isBroadcast(keys, stored.author);
+      const mentions = broadcast
+        ? []
+        : await filterMentions(ctx, {
+            channel: event.channel,
+            mentions: keys,
+            author: stored.author,
+            at: stored.at,
+          });
+      await tx.setMentions(event.channel, event.id, mentions, broadcast);
       return;
     }
     case "delete":
@@ -73,7 +78,10 @@ async function storeMessage(ctx: ApplyContext, event: MessageEvent): Promise<voi
     parentAuthor = (await tx.findMessage(event.channel, event.parent))?.author ?? null;
   }
   if (parentAuthor === author) parentAuthor = null;
-  const mentions = [...new Set((event.mentions ?? []).map(memberKey))].filter((m) => m !== author);
+  const named = [...new Set((event.mentions ?? []).map(memberKey))].filter((m) => m !== author);
+  // DESIGN.md §4.2: a broadcast keeps its reply signal only, so its mentions are never looked up.
+  const broadcast = named.length > BROADCAST_MENTIONS;
+  const mentions = broadcast ? [] : named;
   // One consent lookup for the author, the parent's author and the mentioned, all at `at`.
   const asked = parentAuthor === null ? [author, ...mentions] : [author, parentAuthor, ...mentions];
   const levels = await tx.consentAtMany(event.channel, asked, event.at);
@@ -88,7 +96,15 @@ async function storeMessage(ctx: ApplyContext, event: MessageEvent): Promise<voi
     parentAuthor,
     mentions: mentions.filter((_, i) => consenting(levels[i + offset])),
     deleted: false,
+    ...(broadcast ? { broadcast: true } : {}),
   });
+}
+
+/** The member an event is about (its author or member), as a platform id; null for none. */
+export function eventMember(event: ChatEvent): string | null {
+  if (event.type === "message") return event.author;
+  if (event.type === "consent" || event.type === "group") return event.member;
+  return null;
 }
 
 /** Rule 2's filter: distinct, not the author, consenting at `at` (order is fixed at snapshot). */

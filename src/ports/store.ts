@@ -31,8 +31,17 @@ export interface StoredMessageHead {
  * `parentAuthor` and mention here is a member key (`Store.memberKey`), never a platform id.
  */
 export interface StoreTx {
-  /** Inserts the delivery key (ON CONFLICT DO NOTHING); true when it was new. */
-  addDelivery(key: string, receivedAt: number): Promise<boolean>;
+  /**
+   * Inserts the delivery key (ON CONFLICT DO NOTHING), stored only as a digest; true when it was
+   * new. `owner` (channel and member key of the event) lets erasure delete it with the member.
+   */
+  addDelivery(
+    key: string,
+    receivedAt: number,
+    owner?: { readonly channel: string; readonly member: string | null },
+  ): Promise<boolean>;
+  /** Records a delivery the store could not apply: its key's digest and the error code only. */
+  addRejected(key: string, code: string, receivedAt: number): Promise<void>;
   /** Records that the channel saw an event at `at` (keeps the latest). */
   touchChannel(channel: string, at: number): Promise<void>;
   /** Rule 1: level of the latest applied change with `at` ≤ the given time; `off` when none. */
@@ -51,8 +60,13 @@ export interface StoreTx {
    * written) when a message with that id is already stored — the first wins.
    */
   insertMessage(channel: string, message: LedgerMessage): Promise<boolean>;
-  /** Replaces the mention rows of a stored message. */
-  setMentions(channel: string, id: string, mentions: readonly string[]): Promise<void>;
+  /** Replaces the mention rows of a stored message and its broadcast mark. */
+  setMentions(
+    channel: string,
+    id: string,
+    mentions: readonly string[],
+    broadcast: boolean,
+  ): Promise<void>;
   setDeleted(channel: string, id: string, deleted: boolean): Promise<void>;
 }
 
@@ -158,6 +172,14 @@ export interface Store {
   eraseChannel(channel: string): Promise<EraseCounts>;
   eraseWorkspace(workspace: string): Promise<EraseCounts>;
   purge(cutoffs: PurgeCutoffs): Promise<PurgeCounts>;
+
+  /**
+   * A random secret named `name` (e.g. "report-links"), created on first use and kept in the
+   * store, so every replica of one database signs and checks with the same one.
+   */
+  sharedSecret(name: string): Promise<string>;
+  /** Rejected deliveries recorded so far (for operators and tests). */
+  countRejected(): Promise<number>;
 
   close(): Promise<void>;
 }

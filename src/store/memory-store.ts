@@ -17,7 +17,7 @@ import type {
   Store,
   StoreTx,
 } from "../ports/store.js";
-import { createMemberKeyer, type MemberKeyer } from "./member-key.js";
+import { createMemberKeyer, type MemberKeyer, randomSecret } from "./member-key.js";
 import { emptyChannel, type MemoryState, memoryTx } from "./memory-tx.js";
 import { buildSnapshot, compareStrings, snapshotId } from "./snapshot.js";
 import { Mutex } from "./sql-driver.js";
@@ -37,10 +37,12 @@ class MemoryStore implements Store {
   readonly schemaVersion = 0;
   private readonly state: MemoryState = {
     deliveries: new Map(),
+    rejected: new Map(),
     channels: new Map(),
     rows: new Map(),
   };
   private readonly claims = new Map<string, PostClaim>();
+  private readonly secrets = new Map<string, string>();
   private readonly mutex = new Mutex();
 
   constructor(readonly memberKey: MemberKeyer) {}
@@ -183,6 +185,12 @@ class MemoryStore implements Store {
       if (c.facilitators.delete(key)) rows++;
       if (c.named.delete(key)) rows++;
     }
+    for (const [digest, d] of this.state.deliveries) {
+      if (d.channel === channel && d.member === key) {
+        this.state.deliveries.delete(digest);
+        rows++;
+      }
+    }
     for (const [id, claim] of this.claims) {
       if (claim.channel === channel && claim.member === key) {
         this.claims.delete(id);
@@ -202,6 +210,12 @@ class MemoryStore implements Store {
       this.state.channels.delete(channel);
     }
     if (this.state.rows.delete(channel)) rows++;
+    for (const [digest, d] of this.state.deliveries) {
+      if (d.channel === channel) {
+        this.state.deliveries.delete(digest);
+        rows++;
+      }
+    }
     for (const [id, claim] of this.claims) {
       if (claim.channel === channel) {
         this.claims.delete(id);
@@ -230,13 +244,29 @@ class MemoryStore implements Store {
         }
       }
     }
-    for (const [key, at] of this.state.deliveries) {
-      if (at < cutoffs.deliveriesBefore) {
+    for (const [key, d] of this.state.deliveries) {
+      if (d.at < cutoffs.deliveriesBefore) {
         this.state.deliveries.delete(key);
         deliveries++;
       }
     }
+    for (const [key, r] of this.state.rejected) {
+      if (r.at < cutoffs.deliveriesBefore) this.state.rejected.delete(key);
+    }
     return { messages, deliveries };
+  }
+
+  async sharedSecret(name: string): Promise<string> {
+    let secret = this.secrets.get(name);
+    if (secret === undefined) {
+      secret = randomSecret();
+      this.secrets.set(name, secret);
+    }
+    return secret;
+  }
+
+  async countRejected(): Promise<number> {
+    return this.state.rejected.size;
   }
 
   async close(): Promise<void> {}

@@ -6,6 +6,7 @@
 import type { ConsentLevel } from "../domain/events.js";
 import type { ConsentChange, GroupChange } from "../domain/ledger.js";
 import type { StoreTx } from "../ports/store.js";
+import { deliveryDigest } from "./migrations.js";
 
 export interface MemoryMessage {
   readonly id: string;
@@ -14,6 +15,14 @@ export interface MemoryMessage {
   readonly parentAuthor: string | null;
   readonly deleted: boolean;
   readonly mentions: readonly string[];
+  readonly broadcast?: boolean;
+}
+
+/** A delivery as kept: when it arrived and, for erasure, whose event it was. */
+export interface MemoryDelivery {
+  readonly at: number;
+  readonly channel: string | null;
+  readonly member: string | null;
 }
 
 export interface MemoryChannel {
@@ -28,7 +37,10 @@ export interface MemoryChannel {
 }
 
 export interface MemoryState {
-  readonly deliveries: Map<string, number>;
+  /** Delivery key digest → delivery. */
+  readonly deliveries: Map<string, MemoryDelivery>;
+  /** Rejected delivery key digest → error code and time. */
+  readonly rejected: Map<string, { readonly code: string; readonly at: number }>;
   readonly channels: Map<string, MemoryChannel>;
   /** The channel rows: workspace and latest event time. */
   readonly rows: Map<string, { workspace: string | null; lastEventAt: number | null }>;
@@ -79,11 +91,22 @@ export function memoryTx(state: MemoryState, undo: (() => void)[]): StoreTx {
     return c;
   };
   return {
-    async addDelivery(key, receivedAt) {
-      if (state.deliveries.has(key)) return false;
-      undoSet(state.deliveries, key, undo);
-      state.deliveries.set(key, receivedAt);
+    async addDelivery(key, receivedAt, owner) {
+      const digest = deliveryDigest(key);
+      if (state.deliveries.has(digest)) return false;
+      undoSet(state.deliveries, digest, undo);
+      state.deliveries.set(digest, {
+        at: receivedAt,
+        channel: owner?.channel ?? null,
+        member: owner?.member ?? null,
+      });
       return true;
+    },
+    async addRejected(key, code, receivedAt) {
+      const digest = deliveryDigest(key);
+      if (state.rejected.has(digest)) return;
+      undoSet(state.rejected, digest, undo);
+      state.rejected.set(digest, { code, at: receivedAt });
     },
     async touchChannel(id, at) {
       const row = state.rows.get(id);
@@ -131,15 +154,25 @@ export function memoryTx(state: MemoryState, undo: (() => void)[]): StoreTx {
       const c = channel(id);
       if (c.messages.has(message.id)) return false;
       undoSet(c.messages, message.id, undo);
-      c.messages.set(message.id, { ...message, mentions: [...new Set(message.mentions)] });
+      const { broadcast, ...rest } = message;
+      c.messages.set(message.id, {
+        ...rest,
+        mentions: [...new Set(message.mentions)],
+        ...(broadcast === true ? { broadcast: true } : {}),
+      });
       return true;
     },
-    async setMentions(id, messageId, mentions) {
+    async setMentions(id, messageId, mentions, broadcast) {
       const c = channel(id);
       const m = c.messages.get(messageId);
       if (m === undefined) return;
       undoSet(c.messages, messageId, undo);
-      c.messages.set(messageId, { ...m, mentions: [...new Set(mentions)] });
+      const { broadcast: _old, ...rest } = m;
+      c.messages.set(messageId, {
+        ...rest,
+        mentions: [...new Set(mentions)],
+        ...(broadcast ? { broadcast: true } : {}),
+      });
     },
     async setDeleted(id, messageId, deleted) {
       const c = channel(id);

@@ -6,11 +6,21 @@
  * and PostgreSQL; only the applied-order sequence column differs (`{SEQ}`).
  */
 
+import { createHash } from "node:crypto";
+import type { SqlConnection } from "./sql-driver.js";
+
 export type SqlDialect = "sqlite" | "postgres";
+
+/** The stored form of a delivery key: its SHA-256, hex (FIPS 180-4), so no key is kept in the clear. */
+export function deliveryDigest(deliveryKey: string): string {
+  return createHash("sha256").update(deliveryKey, "utf8").digest("hex");
+}
 
 interface Migration {
   readonly version: number;
   readonly statements: readonly string[];
+  /** Row changes after the statements (e.g. digesting old keys), in the same transaction. */
+  readonly transform?: (conn: SqlConnection) => Promise<void>;
 }
 
 const MIGRATIONS: readonly Migration[] = [
@@ -49,6 +59,33 @@ const MIGRATIONS: readonly Migration[] = [
       `CREATE INDEX post_claim_member ON post_claim (channel, member)`,
     ],
   },
+  {
+    // Issue 11: the id key's fingerprint, the report-link secret shared by replicas, rejected
+    // deliveries, delivery keys as digests with their channel and member (erased with them), and
+    // broadcasts (messages mentioning more than 50 members, kept without their mention rows).
+    version: 2,
+    statements: [
+      `CREATE TABLE plumbline_key (id INTEGER PRIMARY KEY, fingerprint TEXT NOT NULL)`,
+      `CREATE TABLE plumbline_secret (name TEXT PRIMARY KEY, value TEXT NOT NULL)`,
+      `CREATE TABLE rejected_delivery (delivery_key TEXT PRIMARY KEY, code TEXT NOT NULL,
+        received_at BIGINT NOT NULL)`,
+      `CREATE INDEX rejected_received ON rejected_delivery (received_at)`,
+      `ALTER TABLE delivery ADD COLUMN channel TEXT`,
+      `ALTER TABLE delivery ADD COLUMN member TEXT`,
+      `CREATE INDEX delivery_member ON delivery (channel, member)`,
+      `ALTER TABLE message ADD COLUMN broadcast INTEGER NOT NULL DEFAULT 0`,
+    ],
+    async transform(conn) {
+      const rows = await conn.all("SELECT delivery_key FROM delivery");
+      for (const row of rows) {
+        const key = String(row.delivery_key);
+        await conn.run("UPDATE delivery SET delivery_key = ? WHERE delivery_key = ?", [
+          deliveryDigest(key),
+          key,
+        ]);
+      }
+    },
+  },
 ];
 
 /** The schema version this code writes and reads. */
@@ -58,10 +95,11 @@ export const LATEST_SCHEMA_VERSION = MIGRATIONS[MIGRATIONS.length - 1].version;
 export function pendingMigrations(
   dialect: SqlDialect,
   from: number,
-): { version: number; statements: string[] }[] {
+): { version: number; statements: string[]; transform?: (conn: SqlConnection) => Promise<void> }[] {
   const seq = dialect === "sqlite" ? "INTEGER PRIMARY KEY" : "BIGSERIAL PRIMARY KEY";
   return MIGRATIONS.filter((m) => m.version > from).map((m) => ({
     version: m.version,
     statements: m.statements.map((s) => s.replaceAll("{SEQ}", seq)),
+    ...(m.transform ? { transform: m.transform } : {}),
   }));
 }

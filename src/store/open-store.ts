@@ -9,11 +9,11 @@ import { mkdirSync } from "node:fs";
 import { dirname, resolve } from "node:path";
 import { PlumblineError } from "../domain/errors.js";
 import type { Store } from "../ports/store.js";
-import { createMemberKeyer, type KeySource, resolveIdKey } from "./member-key.js";
+import { createMemberKeyer, type KeySource, type ResolvedKey, resolveIdKey } from "./member-key.js";
 import { createMemoryStore } from "./memory-store.js";
 import { PostgresDriver } from "./postgres-driver.js";
 import type { SqlDriver } from "./sql-driver.js";
-import { migrateSchema, SqlStore } from "./sql-store.js";
+import { bindIdKey, migrateSchema, SqlStore } from "./sql-store.js";
 import { SqliteDriver, type SynchronousLevel } from "./sqlite-driver.js";
 
 export const DEFAULT_DATABASE_URL = "sqlite:./data/plumbline.db";
@@ -32,6 +32,10 @@ export interface OpenStoreOptions extends KeySource {
   readonly poolSize?: number;
   /** PostgreSQL: `synchronous_commit` for this store's sessions; default: the server's. */
   readonly synchronousCommit?: "on" | "off";
+  /** PostgreSQL: connect timeout (ms); default 5000. */
+  readonly connectTimeoutMs?: number;
+  /** PostgreSQL: statement timeout (ms); default 30000. */
+  readonly statementTimeoutMs?: number;
   /** Told which migrations ran on open. */
   readonly onMigrated?: (info: { version: number; applied: number }) => void;
 }
@@ -69,8 +73,9 @@ export class SqliteStore extends SqlStore {
     private readonly sqlite: SqliteDriver,
     memberKey: (id: string) => string,
     schemaVersion: number,
+    key: ResolvedKey,
   ) {
-    super(sqlite, memberKey, schemaVersion);
+    super(sqlite, memberKey, schemaVersion, key);
   }
 
   pragma(source: string): unknown {
@@ -82,7 +87,7 @@ export class SqliteStore extends SqlStore {
 export async function openStore(url: string, options: OpenStoreOptions = {}): Promise<Store> {
   const parsed = parseStoreUrl(url, options.cwd);
   if (parsed.kind === "memory") {
-    return createMemoryStore({ idKey: resolveIdKey(options, null) });
+    return createMemoryStore({ idKey: resolveIdKey(options, null).key });
   }
   if (parsed.kind === "sqlite") return openSqliteStore(parsed.path, options);
   return openPostgresStore(parsed.url, options);
@@ -104,18 +109,21 @@ export async function openSqliteStore(
       });
     }
   }
-  const keyer = createMemberKeyer(resolveIdKey(options, file ? `${path}.key` : null));
   const driver = new SqliteDriver({
     path,
     ...(options.busyTimeoutMs === undefined ? {} : { busyTimeoutMs: options.busyTimeoutMs }),
     ...(options.synchronous === undefined ? {} : { synchronous: options.synchronous }),
   });
   const version = await migrateOrClose(driver, options);
-  return new SqliteStore(driver, keyer, version);
+  const key = await bindOrClose(driver, (empty) =>
+    resolveIdKey(options, file ? `${path}.key` : null, empty),
+  );
+  return new SqliteStore(driver, createMemberKeyer(key.key), version, key);
 }
 
 async function openPostgresStore(url: string, options: OpenStoreOptions): Promise<Store> {
-  const keyer = createMemberKeyer(resolveIdKey(options, null));
+  // Checked before connecting: a missing key is refused without a round trip.
+  resolveIdKey(options, null);
   const driver = new PostgresDriver({
     url,
     ...(options.schema === undefined ? {} : { schema: options.schema }),
@@ -123,6 +131,12 @@ async function openPostgresStore(url: string, options: OpenStoreOptions): Promis
     ...(options.synchronousCommit === undefined
       ? {}
       : { synchronousCommit: options.synchronousCommit }),
+    ...(options.connectTimeoutMs === undefined
+      ? {}
+      : { connectTimeoutMs: options.connectTimeoutMs }),
+    ...(options.statementTimeoutMs === undefined
+      ? {}
+      : { statementTimeoutMs: options.statementTimeoutMs }),
   });
   try {
     await driver.connect({
@@ -134,7 +148,20 @@ async function openPostgresStore(url: string, options: OpenStoreOptions): Promis
     throw error;
   }
   const version = await migrateOrClose(driver, options);
-  return new SqlStore(driver, keyer, version);
+  const key = await bindOrClose(driver, () => resolveIdKey(options, null));
+  return new SqlStore(driver, createMemberKeyer(key.key), version, key);
+}
+
+async function bindOrClose(
+  driver: SqlDriver,
+  resolve: (empty: boolean) => ResolvedKey,
+): Promise<ResolvedKey> {
+  try {
+    return await bindIdKey(driver, resolve);
+  } catch (error) {
+    await driver.close();
+    throw error;
+  }
 }
 
 async function migrateOrClose(driver: SqlDriver, options: OpenStoreOptions): Promise<number> {

@@ -28,7 +28,18 @@ export interface PostgresDriverOptions {
    * trades the last few commits after a server crash for speed, never consistency.
    */
   readonly synchronousCommit?: "on" | "off";
+  /** How long to wait for a connection (TCP, TLS and startup) before STORE_UNAVAILABLE. */
+  readonly connectTimeoutMs?: number;
+  /**
+   * The server's `statement_timeout` for this store's sessions; the client also gives up on an
+   * answer this long plus 5 s after a query was sent (a server that stopped answering).
+   */
+  readonly statementTimeoutMs?: number;
 }
+
+/** Defaults: 5 s to connect, 30 s per statement. */
+export const DEFAULT_CONNECT_TIMEOUT_MS = 5000;
+export const DEFAULT_STATEMENT_TIMEOUT_MS = 30_000;
 
 /** A safe identifier for a schema name (letters, digits, underscore). */
 export function assertSchemaName(schema: string): string {
@@ -49,7 +60,20 @@ export class PostgresDriver implements SqlDriver {
 
   constructor(options: PostgresDriverOptions) {
     const schema = options.schema === undefined ? undefined : assertSchemaName(options.schema);
-    this.pool = new pg.Pool({ connectionString: options.url, max: options.max ?? 5 });
+    const statementTimeout = Math.max(
+      1,
+      Math.trunc(options.statementTimeoutMs ?? DEFAULT_STATEMENT_TIMEOUT_MS),
+    );
+    this.pool = new pg.Pool({
+      connectionString: options.url,
+      max: options.max ?? 5,
+      connectionTimeoutMillis: Math.max(
+        1,
+        Math.trunc(options.connectTimeoutMs ?? DEFAULT_CONNECT_TIMEOUT_MS),
+      ),
+      statement_timeout: statementTimeout,
+      query_timeout: statementTimeout + 5000,
+    });
     // Set per session, not through the startup `options` (a URL's own options would replace it).
     if (schema !== undefined) this.setup.push(`SET search_path TO ${schema}`);
     if (options.synchronousCommit !== undefined) {

@@ -18,6 +18,7 @@ export interface SnapshotRows {
     readonly parentAuthor: string | null;
     readonly deleted: boolean;
     readonly mentions: readonly string[];
+    readonly broadcast?: boolean;
   }[];
   /** In applied order. */
   readonly consent: readonly {
@@ -51,6 +52,7 @@ export function buildSnapshot(rows: SnapshotRows): LedgerSnapshot {
     parentAuthor: m.parentAuthor === null ? null : id(m.parentAuthor),
     mentions: m.mentions.map(id).sort(compareStrings),
     deleted: m.deleted,
+    ...(m.broadcast === true ? { broadcast: true } : {}),
   }));
   messages.sort((a, b) => a.at - b.at || compareStrings(a.id, b.id));
   return {

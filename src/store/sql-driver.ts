@@ -23,6 +23,8 @@ export interface SqlDriver {
    * rethrows (as a coded PlumblineError where the cause is known) when it rejects.
    */
   transaction<T>(fn: (conn: SqlConnection) => Promise<T>, mode: "read" | "write"): Promise<T>;
+  /** After an erasure: make sure no file keeps the erased rows' bytes (SQLite: empty the WAL). */
+  afterErase?(): Promise<void>;
   close(): Promise<void>;
 }
 

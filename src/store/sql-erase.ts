@@ -32,6 +32,7 @@ export async function eraseMemberRows(
     "facilitator",
     "post_claim",
     "named_member",
+    "delivery",
   ]) {
     rows += await conn.run(`DELETE FROM ${table} WHERE channel = ? AND member = ?`, [c, m]);
   }
@@ -47,6 +48,7 @@ const CHANNEL_TABLES = [
   "facilitator",
   "post_claim",
   "channel_state",
+  "delivery",
   "channel",
 ] as const;
 
@@ -69,5 +71,6 @@ export async function purgeRows(conn: SqlConnection, cutoffs: PurgeCutoffs): Pro
   const deliveries = await conn.run("DELETE FROM delivery WHERE received_at < ?", [
     cutoffs.deliveriesBefore,
   ]);
+  await conn.run("DELETE FROM rejected_delivery WHERE received_at < ?", [cutoffs.deliveriesBefore]);
   return { messages, deliveries };
 }

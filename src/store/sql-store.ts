@@ -19,12 +19,19 @@ import type {
   StoreKind,
   StoreTx,
 } from "../ports/store.js";
-import type { MemberKeyer } from "./member-key.js";
+import {
+  keyFingerprint,
+  type MemberKeyer,
+  mismatchedKey,
+  type ResolvedKey,
+  randomSecret,
+} from "./member-key.js";
 import { LATEST_SCHEMA_VERSION, pendingMigrations } from "./migrations.js";
 import { buildSnapshot, compareStrings, isConsentLevel, snapshotId } from "./snapshot.js";
 import { completeClaim, insertClaim, markMissed, readClaim } from "./sql-claims.js";
 import type { SqlConnection, SqlDriver } from "./sql-driver.js";
 import { eraseChannelRows, eraseMemberRows, purgeRows } from "./sql-erase.js";
+import { type RekeyOptions, rekeyRows } from "./sql-rekey.js";
 import { num, sqlTx } from "./sql-tx.js";
 
 /** Arbitrary fixed id for the migration advisory lock (PostgreSQL). */
@@ -57,11 +64,52 @@ export async function migrateSchema(
     const pending = pendingMigrations(driver.dialect, version);
     for (const migration of pending) {
       for (const statement of migration.statements) await conn.run(statement);
+      await migration.transform?.(conn);
       version = migration.version;
     }
     await conn.run("UPDATE plumbline_schema SET version = ?", [version]);
     return { version, applied: pending.length };
   }, "write");
+}
+
+/** Tables whose rows mean the store holds data keyed with some id key. */
+const KEYED_TABLES = ["consent_change", "message", "group_change", "facilitator", "delivery"];
+
+/**
+ * Binds the id key to the store (DESIGN.md §7): compares the key's fingerprint with the one
+ * kept, or — for a store without one — records it. `resolve` gets whether the store is empty (a
+ * key may be generated only then) and returns the key and where it came from. A different key is
+ * refused with STORE_KEY_MISMATCH naming that place.
+ */
+export async function bindIdKey(
+  driver: SqlDriver,
+  resolve: (empty: boolean) => ResolvedKey,
+): Promise<ResolvedKey> {
+  const state = await driver.transaction(async (conn) => {
+    const rows = await conn.all("SELECT fingerprint FROM plumbline_key WHERE id = 1");
+    let data = false;
+    for (const table of KEYED_TABLES) {
+      if ((await conn.all(`SELECT 1 AS found FROM ${table} LIMIT 1`)).length > 0) {
+        data = true;
+        break;
+      }
+    }
+    return { fingerprint: rows[0] === undefined ? null : String(rows[0].fingerprint), data };
+  }, "read");
+  const resolved = resolve(state.fingerprint === null && !state.data);
+  const fingerprint = keyFingerprint(resolved.key);
+  const kept =
+    state.fingerprint ??
+    (await driver.transaction(async (conn) => {
+      await conn.run(
+        "INSERT INTO plumbline_key (id, fingerprint) VALUES (1, ?) ON CONFLICT (id) DO NOTHING",
+        [fingerprint],
+      );
+      const rows = await conn.all("SELECT fingerprint FROM plumbline_key WHERE id = 1");
+      return String(rows[0].fingerprint);
+    }, "write"));
+  if (kept !== fingerprint) throw mismatchedKey(resolved.origin);
+  return resolved;
 }
 
 export class SqlStore implements Store {
@@ -71,18 +119,20 @@ export class SqlStore implements Store {
     private readonly driver: SqlDriver,
     readonly memberKey: MemberKeyer,
     readonly schemaVersion: number,
+    /** The id key in use and where it came from (for `plumbline rekey`). */
+    readonly idKey: ResolvedKey,
   ) {
     this.kind = driver.dialect;
   }
 
   transaction<T>(fn: (tx: StoreTx) => Promise<T>): Promise<T> {
-    return this.driver.transaction((conn) => fn(sqlTx(conn)), "write");
+    return this.driver.transaction((conn) => fn(sqlTx(conn, this.driver.dialect)), "write");
   }
 
   loadSnapshot(channel: string): Promise<LedgerSnapshot> {
     return this.driver.transaction(async (conn) => {
       const messages = await conn.all(
-        "SELECT id, author, at, parent_author, deleted FROM message WHERE channel = ?",
+        "SELECT id, author, at, parent_author, deleted, broadcast FROM message WHERE channel = ?",
         [channel],
       );
       const targets = await conn.all(
@@ -116,6 +166,7 @@ export class SqlStore implements Store {
           parentAuthor: m.parent_author === null ? null : String(m.parent_author),
           deleted: num(m.deleted) !== 0,
           mentions: mentions.get(String(m.id)) ?? [],
+          ...(num(m.broadcast) !== 0 ? { broadcast: true } : {}),
         })),
         consent: consent.map((c) => ({
           member: String(c.member),
@@ -235,11 +286,15 @@ export class SqlStore implements Store {
 
   async eraseMember(channel: string, platformId: string): Promise<EraseCounts> {
     const key = this.memberKey(platformId);
-    return { rows: await this.write((conn) => eraseMemberRows(conn, channel, key)) };
+    const rows = await this.write((conn) => eraseMemberRows(conn, channel, key));
+    await this.driver.afterErase?.();
+    return { rows };
   }
 
   async eraseChannel(channel: string): Promise<EraseCounts> {
-    return { rows: await this.write((conn) => eraseChannelRows(conn, channel)) };
+    const rows = await this.write((conn) => eraseChannelRows(conn, channel));
+    await this.driver.afterErase?.();
+    return { rows };
   }
 
   async eraseWorkspace(workspace: string): Promise<EraseCounts> {
@@ -251,11 +306,36 @@ export class SqlStore implements Store {
       for (const c of channels) total += await eraseChannelRows(conn, String(c.channel));
       return total;
     });
+    await this.driver.afterErase?.();
     return { rows };
   }
 
   purge(cutoffs: PurgeCutoffs): Promise<PurgeCounts> {
     return this.write((conn) => purgeRows(conn, cutoffs));
+  }
+
+  sharedSecret(name: string): Promise<string> {
+    return this.write(async (conn) => {
+      await conn.run(
+        "INSERT INTO plumbline_secret (name, value) VALUES (?, ?) ON CONFLICT (name) DO NOTHING",
+        [name, randomSecret()],
+      );
+      const rows = await conn.all("SELECT value FROM plumbline_secret WHERE name = ?", [name]);
+      return String(rows[0].value);
+    });
+  }
+
+  async countRejected(): Promise<number> {
+    const rows = await this.read((conn) => conn.all("SELECT COUNT(*) AS n FROM rejected_delivery"));
+    return num(rows[0].n);
+  }
+
+  /**
+   * Re-keys every row in one transaction (sql-rekey.ts) and returns the new key (chain). The
+   * store's own `memberKey` keeps the old key: close it and open again with the new one.
+   */
+  rekey(options: RekeyOptions): Promise<{ key: string; members: number; rows: number }> {
+    return this.write((conn) => rekeyRows(conn, this.driver.dialect, options));
   }
 
   close(): Promise<void> {

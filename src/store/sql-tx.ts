@@ -7,6 +7,7 @@
 import type { ConsentLevel } from "../domain/events.js";
 import type { ConsentChange, GroupChange, LedgerMessage } from "../domain/ledger.js";
 import type { StoredMessageHead, StoreTx } from "../ports/store.js";
+import { deliveryDigest, type SqlDialect } from "./migrations.js";
 import { isConsentLevel } from "./snapshot.js";
 import type { SqlConnection } from "./sql-driver.js";
 
@@ -19,14 +20,34 @@ export function num(value: unknown): number {
 const LATEST_LEVEL = `SELECT level FROM consent_change WHERE channel = ? AND member = ? AND at <= ?
   ORDER BY at DESC, seq DESC LIMIT 1`;
 
-export function sqlTx(conn: SqlConnection): StoreTx {
+/**
+ * A table of the strings in one JSON-array parameter, as `j(value)`: one parameter however many
+ * members (SQLite's json_each, sqlite.org/json1.html; PostgreSQL's json_array_elements_text, the
+ * manual's "JSON Functions and Operators"). A statement never grows a column or parameter per
+ * member, so no member count meets SQLite's or PostgreSQL's limits on either (SQLSTATE 54011).
+ */
+export function jsonList(dialect: SqlDialect): string {
+  return dialect === "sqlite"
+    ? "json_each(?) AS j"
+    : "json_array_elements_text(?::json) AS j(value)";
+}
+
+export function sqlTx(conn: SqlConnection, dialect: SqlDialect): StoreTx {
   return {
-    async addDelivery(key, receivedAt) {
+    async addDelivery(key, receivedAt, owner) {
       const changed = await conn.run(
-        "INSERT INTO delivery (delivery_key, received_at) VALUES (?, ?) ON CONFLICT (delivery_key) DO NOTHING",
-        [key, receivedAt],
+        `INSERT INTO delivery (delivery_key, received_at, channel, member) VALUES (?, ?, ?, ?)
+         ON CONFLICT (delivery_key) DO NOTHING`,
+        [deliveryDigest(key), receivedAt, owner?.channel ?? null, owner?.member ?? null],
       );
       return changed === 1;
+    },
+    async addRejected(key, code, receivedAt) {
+      await conn.run(
+        `INSERT INTO rejected_delivery (delivery_key, code, received_at) VALUES (?, ?, ?)
+         ON CONFLICT (delivery_key) DO NOTHING`,
+        [deliveryDigest(key), code, receivedAt],
+      );
     },
     async touchChannel(channel, at) {
       await conn.run(
@@ -45,16 +66,17 @@ export function sqlTx(conn: SqlConnection): StoreTx {
     async consentAtMany(channel, members, at): Promise<ConsentLevel[]> {
       if (members.length === 0) return [];
       const distinct = [...new Set(members)];
-      // One statement, one indexed LIMIT 1 lookup per member (a single round trip on PostgreSQL).
+      // One statement, one indexed LIMIT 1 lookup per member, the members as one array parameter.
       const rows = await conn.all(
-        `SELECT ${distinct.map((_, i) => `(${LATEST_LEVEL}) AS l${i}`).join(", ")}`,
-        distinct.flatMap((member) => [channel, member, at]),
+        `SELECT j.value AS member, (SELECT c.level FROM consent_change c WHERE c.channel = ?
+           AND c.member = j.value AND c.at <= ? ORDER BY c.at DESC, c.seq DESC LIMIT 1) AS level
+         FROM ${jsonList(dialect)}`,
+        [channel, at, JSON.stringify(distinct)],
       );
       const levels = new Map<string, ConsentLevel>();
-      distinct.forEach((member, i) => {
-        const level = rows[0]?.[`l${i}`];
-        levels.set(member, isConsentLevel(level) ? level : "off");
-      });
+      for (const row of rows) {
+        levels.set(String(row.member), isConsentLevel(row.level) ? row.level : "off");
+      }
       return members.map((m) => levels.get(m) ?? "off");
     },
     async addConsent(channel, change: ConsentChange) {
@@ -95,8 +117,8 @@ export function sqlTx(conn: SqlConnection): StoreTx {
     },
     async insertMessage(channel, message: LedgerMessage) {
       const inserted = await conn.run(
-        `INSERT INTO message (channel, id, author, at, parent_author, deleted)
-         VALUES (?, ?, ?, ?, ?, ?) ON CONFLICT (channel, id) DO NOTHING`,
+        `INSERT INTO message (channel, id, author, at, parent_author, deleted, broadcast)
+         VALUES (?, ?, ?, ?, ?, ?, ?) ON CONFLICT (channel, id) DO NOTHING`,
         [
           channel,
           message.id,
@@ -104,18 +126,24 @@ export function sqlTx(conn: SqlConnection): StoreTx {
           message.at,
           message.parentAuthor,
           message.deleted ? 1 : 0,
+          message.broadcast === true ? 1 : 0,
         ],
       );
       if (inserted === 0) return false;
-      await insertMentions(conn, channel, message.id, message.mentions);
+      await insertMentions(conn, dialect, channel, message.id, message.mentions);
       return true;
     },
-    async setMentions(channel, id, mentions) {
+    async setMentions(channel, id, mentions, broadcast) {
       await conn.run(
         "DELETE FROM message_target WHERE channel = ? AND message_id = ? AND kind = 'mention'",
         [channel, id],
       );
-      await insertMentions(conn, channel, id, mentions);
+      await conn.run("UPDATE message SET broadcast = ? WHERE channel = ? AND id = ?", [
+        broadcast ? 1 : 0,
+        channel,
+        id,
+      ]);
+      await insertMentions(conn, dialect, channel, id, mentions);
     },
     async setDeleted(channel, id, deleted) {
       await conn.run("UPDATE message SET deleted = ? WHERE channel = ? AND id = ?", [
@@ -129,6 +157,7 @@ export function sqlTx(conn: SqlConnection): StoreTx {
 
 async function insertMentions(
   conn: SqlConnection,
+  dialect: SqlDialect,
   channel: string,
   id: string,
   mentions: readonly string[],
@@ -136,8 +165,8 @@ async function insertMentions(
   const targets = [...new Set(mentions)];
   if (targets.length === 0) return;
   await conn.run(
-    `INSERT INTO message_target (channel, message_id, kind, target) VALUES
-     ${targets.map(() => "(?, ?, 'mention', ?)").join(", ")}`,
-    targets.flatMap((target) => [channel, id, target]),
+    `INSERT INTO message_target (channel, message_id, kind, target)
+     SELECT ?, ?, 'mention', j.value FROM ${jsonList(dialect)}`,
+    [channel, id, JSON.stringify(targets)],
   );
 }

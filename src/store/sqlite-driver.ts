@@ -6,6 +6,9 @@
  * sqlite.org/pragma.html#pragma_synchronous) and the busy timeout. Writes start with
  * `BEGIN IMMEDIATE` so a busy database fails at the start of a transaction, never half way; a mutex
  * keeps one transaction at a time on the connection, since the callback is async.
+ * `secure_delete = ON` overwrites deleted content with zeros (sqlite.org/pragma.html#pragma_secure_delete)
+ * and after an erasure a TRUNCATE checkpoint copies the WAL into the database and empties it
+ * (sqlite.org/pragma.html#pragma_wal_checkpoint), so neither file keeps an erased row's bytes.
  */
 import Database from "better-sqlite3";
 import { PlumblineError } from "../domain/errors.js";
@@ -42,6 +45,7 @@ export class SqliteDriver implements SqlDriver {
       this.db.pragma("journal_mode = WAL");
       this.db.pragma(`synchronous = ${options.synchronous ?? "NORMAL"}`);
       this.db.pragma(`busy_timeout = ${Math.max(0, Math.trunc(busy))}`);
+      this.db.pragma("secure_delete = ON");
     } catch (error) {
       throw mapOpenError(error, options.path);
     }
@@ -60,6 +64,16 @@ export class SqliteDriver implements SqlDriver {
         return result;
       } catch (error) {
         if (this.db.inTransaction) this.db.exec("ROLLBACK");
+        throw mapDriverError(error);
+      }
+    });
+  }
+
+  afterErase(): Promise<void> {
+    return this.mutex.run(async () => {
+      try {
+        this.db.pragma("wal_checkpoint(TRUNCATE)");
+      } catch (error) {
         throw mapDriverError(error);
       }
     });
@@ -88,6 +102,16 @@ export class SqliteDriver implements SqlDriver {
 
 function mapOpenError(error: unknown, path: string): unknown {
   const mapped = mapDriverError(error);
+  if (mapped instanceof PlumblineError && mapped.code === "STORE_READ_ONLY") {
+    return new PlumblineError(
+      "STORE_READ_ONLY",
+      `the SQLite database ${path} is read-only for this process`,
+      {
+        hint: `make ${path} and its folder writable by this user (SQLite writes ${path}-wal and ${path}-shm beside it), or copy it somewhere writable and point --db / DATABASE_URL there`,
+        cause: error,
+      },
+    );
+  }
   if (mapped !== error) return mapped;
   return new PlumblineError("STORE_UNAVAILABLE", `cannot open the SQLite database ${path}`, {
     hint: "check that the folder exists and is writable, or set DATABASE_URL to another path",

@@ -58,16 +58,19 @@ describe("plumbline ingest / migrate / purge", () => {
     const m1 = io(env);
     expect(await main(["migrate"], m1.io)).toBe(0);
     expect(m1.out.join("")).toBe(
-      `sqlite:./db/maint.db: schema at version ${LATEST_SCHEMA_VERSION} (1 migration applied)\n`,
+      `sqlite:./db/maint.db: schema at version ${LATEST_SCHEMA_VERSION} (${LATEST_SCHEMA_VERSION} migrations applied)\n`,
     );
     const m2 = io(env);
     expect(await main(["migrate"], m2.io)).toBe(0);
     expect(m2.out.join("")).toMatch(/\(0 migrations applied\)\n$/);
     const log = writeLog("maint.jsonl", 300);
     expect(await main(["ingest", log], io(env).io)).toBe(0);
-    // The stream starts 2026-11-02; 200 days later every message is past 91 days.
+    // The stream starts 2026-11-02; 200 days later every message is past 91 days. Delivery keys
+    // carry the real time they were ingested, so the purge time is also at least a day after that
+    // (a fixed date alone would stop purging them once the calendar passes it).
+    const purgeAt = new Date(Math.max(Date.parse("2027-05-21T00:00:00Z"), Date.now() + 86_400_000));
     const p = io(env);
-    expect(await main(["purge", "--now", "2027-05-21T00:00:00Z", "--dedupe-days", "0"], p.io)).toBe(
+    expect(await main(["purge", "--now", purgeAt.toISOString(), "--dedupe-days", "0"], p.io)).toBe(
       0,
     );
     expect(p.out.join("")).toMatch(

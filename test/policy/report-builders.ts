@@ -39,6 +39,7 @@ export function makeReport(options: {
     status: "ok",
     members: 6,
     signals: 100,
+    broadcasts: 0,
     sufficient: true,
     needed: null,
     influence: [{ ...top, attentionReceived: 1, named: false }],

@@ -4,7 +4,8 @@
  * verifying-requests-from-slack: v0 HMAC-SHA256 over `v0:timestamp:body`, five-minute window) and
  * the bad-input table in the project's reliability notes (401 / 400 / 413 / 200).
  */
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { createHmac } from "node:crypto";
+import { afterEach, beforeEach, describe, expect, it } from "vitest";
 import { MAX_BODY_BYTES } from "../../adapters/slack/request-guard.js";
 import {
   CHANNEL,
@@ -17,14 +18,15 @@ import {
   startHarness,
 } from "./harness.js";
 
+// One harness per test, so the cases hold in any order (the suite runs shuffled in CI once).
 let h: Harness;
 
-beforeAll(async () => {
+beforeEach(async () => {
   h = await startHarness();
   await consent(h, ["U0ANA", "U0BO"]);
 });
 
-afterAll(async () => {
+afterEach(async () => {
   await h.close();
 });
 
@@ -52,8 +54,14 @@ const cases: Case[] = [
     name: "signature made with another secret",
     status: 401,
     send: () => {
+      // The v0 scheme by hand (HMAC-SHA256 over `v0:timestamp:body`), under a secret that is not
+      // the app's; the body is untouched.
       const body = message();
-      const headers = signedHeaders(`${body} `, h.clock.now());
+      const timestamp = String(Math.floor(h.clock.now() / 1000));
+      const headers = signedHeaders(body, h.clock.now());
+      const hmac = createHmac("sha256", "some-other-apps-signing-secret");
+      headers["x-slack-signature"] = `v0=${hmac.update(`v0:${timestamp}:${body}`).digest("hex")}`;
+      expect(headers["x-slack-request-timestamp"]).toBe(timestamp);
       return post(h.port, body, headers);
     },
   },
