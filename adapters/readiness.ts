@@ -111,9 +111,9 @@ export function watchWrites(store: Store, clock: Clock): WatchedStore {
     }
   };
   const watched = new Proxy(store, {
-    get(target, property, receiver) {
+    get(target, property) {
       if (property === "transaction") return transaction;
-      const value: unknown = Reflect.get(target, property, receiver);
+      const value: unknown = Reflect.get(target, property);
       return typeof value === "function" ? value.bind(target) : value;
     },
   });

@@ -11,6 +11,7 @@
 import { createServer, type Server, type ServerResponse } from "node:http";
 import type { Logger } from "../src/ports/logger.js";
 import type { HttpRoute } from "./platform-adapter.js";
+import { rateLimitedLog } from "./rate-limited-log.js";
 import type { ReadinessReport } from "./readiness.js";
 
 export interface ServerLimits {
@@ -39,6 +40,8 @@ export interface RouteServerOptions {
   readonly ready?: () => Promise<ReadinessReport>;
   readonly logger?: Logger;
   readonly limits?: Partial<ServerLimits>;
+  /** Epoch ms, for the rate limit of the cut-off log; default Date.now. */
+  readonly now?: () => number;
 }
 
 function sendJson(response: ServerResponse, status: number, body: unknown) {
@@ -50,6 +53,9 @@ export function createRouteServer(options: RouteServerOptions): Server {
   const exact = new Map(options.routes.filter((r) => !r.prefix).map((r) => [r.path, r] as const));
   const prefixed = options.routes.filter((r) => r.prefix === true);
   const limits = { ...DEFAULT_SERVER_LIMITS, ...options.limits };
+  const cutOff = options.logger
+    ? rateLimitedLog({ logger: options.logger, now: options.now ?? Date.now })
+    : null;
   const server = createServer(
     {
       headersTimeout: limits.headersTimeoutMs,
@@ -82,6 +88,12 @@ export function createRouteServer(options: RouteServerOptions): Server {
         return;
       }
       route.handle(request, response).catch((error: unknown) => {
+        if (request.destroyed && response.writableEnded === false && !response.headersSent) {
+          // The client went away or was cut off (408 by the timeouts): nothing to answer.
+          cutOff?.("info", { path }, "request cut off before its body arrived");
+          response.destroy();
+          return;
+        }
         options.logger?.error(
           { path, error: error instanceof Error ? error.message : String(error) },
           "request failed",

@@ -58,6 +58,14 @@ function text(value: unknown): string | null {
  */
 const TEAMS_ID = /^[\x21-\x7e]{1,512}$/;
 
+/**
+ * Teams conversation ids: `19:<id>@thread.<kind>` for channels, group chats and meetings (a reply
+ * adds `;messageid=<digits>`, research notes platforms §2.4) and `a:<id>` for personal chats
+ * (from memory of the Bot Framework's Teams payloads; the fixtures follow both).
+ */
+const CONVERSATION_ID =
+  /^(19:[\x21-\x7e]+@thread\.[a-z0-9]+(;messageid=\d{1,20})?|a:[\x21-\x7e]+)$/;
+
 export function isTeamsId(value: unknown): value is string {
   return typeof value === "string" && TEAMS_ID.test(value);
 }
@@ -78,6 +86,10 @@ export function malformedIdField(activity: ActivityLike): string | null {
   ];
   for (const [name, value] of fields) {
     if (value !== undefined && value !== null && value !== "" && !isTeamsId(value)) return name;
+  }
+  const conversation = activity.conversation?.id;
+  if (typeof conversation === "string" && !CONVERSATION_ID.test(conversation)) {
+    return "conversation.id";
   }
   return null;
 }

@@ -8,6 +8,8 @@
 import {
   DEFAULT_DATABASE_URL,
   DEFAULT_HOST,
+  DEFAULT_PG_CONNECT_TIMEOUT_MS,
+  DEFAULT_PG_STATEMENT_TIMEOUT_MS,
   DEFAULT_PORT,
   DEFAULT_RETENTION_DAYS,
   type EnvKey,
@@ -54,6 +56,17 @@ const ROWS: readonly SettingRow[] = [
   },
   { setting: "HOST", default: DEFAULT_HOST, meaning: "Address the HTTP server listens on" },
   { setting: "PORT", default: String(DEFAULT_PORT), meaning: "Port the HTTP server listens on" },
+  {
+    setting: "PLUMBLINE_PG_CONNECT_TIMEOUT_MS",
+    default: String(DEFAULT_PG_CONNECT_TIMEOUT_MS),
+    meaning:
+      "PostgreSQL: ms to open a connection (TCP, TLS, start-up) before STORE_UNAVAILABLE (1–600000)",
+  },
+  {
+    setting: "PLUMBLINE_PG_STATEMENT_TIMEOUT_MS",
+    default: String(DEFAULT_PG_STATEMENT_TIMEOUT_MS),
+    meaning: "PostgreSQL: ms each statement may run on the server (statement_timeout; 1–3600000)",
+  },
   { setting: "LOG_LEVEL", default: "info", meaning: "debug, info, warn or error" },
   {
     setting: "PLUMBLINE_REPLICA_ID",

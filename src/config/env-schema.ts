@@ -15,6 +15,8 @@ export const RETENTION_DAYS_LIMITS = { min: 7, max: 400 } as const;
 export const DEFAULT_HOST = "0.0.0.0";
 export const DEFAULT_PORT = 3000;
 export const MIN_ID_KEY_LENGTH = 32;
+export const DEFAULT_PG_CONNECT_TIMEOUT_MS = 5000;
+export const DEFAULT_PG_STATEMENT_TIMEOUT_MS = 30_000;
 export const LOG_LEVELS = ["debug", "info", "warn", "error"] as const;
 export const TEAMS_APP_TYPES = ["SingleTenant", "MultiTenant", "UserAssignedMSI"] as const;
 
@@ -119,8 +121,8 @@ export const ENV_FIELDS = {
   ),
   HOST: text(),
   PORT: wholeNumber(0, 65535, DEFAULT_PORT), // 0: any free port (tests),
-  PLUMBLINE_PG_CONNECT_TIMEOUT_MS: wholeNumber(1, 600_000, 5000),
-  PLUMBLINE_PG_STATEMENT_TIMEOUT_MS: wholeNumber(1, 3_600_000, 30_000),
+  PLUMBLINE_PG_CONNECT_TIMEOUT_MS: wholeNumber(1, 600_000, DEFAULT_PG_CONNECT_TIMEOUT_MS),
+  PLUMBLINE_PG_STATEMENT_TIMEOUT_MS: wholeNumber(1, 3_600_000, DEFAULT_PG_STATEMENT_TIMEOUT_MS),
   LOG_LEVEL: oneOf(LOG_LEVELS),
   PLUMBLINE_REPLICA_ID: matching(/^\S+$/, "must not contain spaces"),
   PLUMBLINE_REPORT_SECRET: text().refine((v) => v === undefined || v.length >= 16, {

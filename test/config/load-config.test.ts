@@ -29,6 +29,8 @@ describe("loadConfig", () => {
       databaseUrl: "sqlite:./data/plumbline.db",
       idKey: null,
       idKeyFile: null,
+      pgConnectTimeoutMs: 5000,
+      pgStatementTimeoutMs: 30_000,
       facilitators: [],
       retentionDays: 91,
       host: "0.0.0.0",
@@ -203,6 +205,8 @@ describe("describeSettings", () => {
     expect(defaults.DATABASE_URL).toBe(config.databaseUrl);
     expect(defaults.PORT).toBe(String(config.port));
     expect(defaults.PLUMBLINE_RETENTION_DAYS).toBe(String(config.retentionDays));
+    expect(defaults.PLUMBLINE_PG_CONNECT_TIMEOUT_MS).toBe(String(config.pgConnectTimeoutMs));
+    expect(defaults.PLUMBLINE_PG_STATEMENT_TIMEOUT_MS).toBe(String(config.pgStatementTimeoutMs));
     expect(defaults.HOST).toBe(config.host);
     expect(defaults.LOG_LEVEL).toBe(config.logLevel);
   });

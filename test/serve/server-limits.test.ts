@@ -8,6 +8,8 @@
 import { connect, type Socket } from "node:net";
 import { afterEach, describe, expect, it } from "vitest";
 import { createRouteServer, DEFAULT_SERVER_LIMITS, listen } from "../../adapters/route-server.js";
+import { MAX_BODY_BYTES, readCappedBody } from "../../adapters/slack/request-guard.js";
+import { MemoryLogger } from "../../src/ports/logger.js";
 
 const LIMITS = {
   headersTimeoutMs: 200,
@@ -22,9 +24,18 @@ afterEach(async () => {
   closeServer = null;
 });
 
-async function startServer() {
+async function startServer(logger?: MemoryLogger) {
   const server = createRouteServer({
+    ...(logger ? { logger } : {}),
     routes: [
+      {
+        path: "/slack",
+        // The Slack guard's body reader, which rejects when the socket is cut off.
+        handle: async (request, response) => {
+          await readCappedBody(request, MAX_BODY_BYTES);
+          response.end("ok");
+        },
+      },
       {
         path: "/echo",
         handle: async (request, response) => {
@@ -119,5 +130,21 @@ describe("route server limits", () => {
     held[0].socket.end();
     expect((await held[0].done).data).toMatch(/^HTTP\/1\.1 200 /);
     held[1].socket.destroy();
+  });
+
+  it("logs a cut-off Slack body as one info line, not as a failed request", async () => {
+    const logger = new MemoryLogger();
+    const { port } = await startServer(logger);
+    const { done } = untilClosed(
+      port,
+      "POST /slack HTTP/1.1\r\nHost: x\r\nContent-Length: 100\r\n\r\n0123456789",
+    );
+    expect((await done).data).toMatch(/^HTTP\/1\.1 408 /);
+    for (let k = 0; k < 10_000 && logger.records.length === 0; k++) {
+      await new Promise((resolve) => setImmediate(resolve));
+    }
+    expect(logger.records.map((r) => [r.level, r.message])).toEqual([
+      ["info", "request cut off before its body arrived"],
+    ]);
   });
 });

@@ -3,6 +3,7 @@ import {
   commandWords,
   coreChannelId,
   deliveryKeyOf,
+  malformedIdField,
   memberIdOf,
   parentOf,
   personMentions,
@@ -77,6 +78,35 @@ describe("Teams activity fields", () => {
     expect(deliveryKeyOf(edit)).not.toBe(deliveryKeyOf(later));
     expect(deliveryKeyOf(fixture("soft-delete.json"))).not.toBe(
       deliveryKeyOf(fixture("undelete.json")),
+    );
+  });
+});
+
+describe("malformedIdField", () => {
+  it("accepts the conversation shapes Teams sends", () => {
+    for (const id of [
+      "19:general0001@thread.tacv2",
+      "19:general0001@thread.tacv2;messageid=1700000000123",
+      "19:meeting_NzU0@thread.v2",
+      "19:0af1c3@thread.skype",
+      "a:1QyB8-personal_Chat",
+    ]) {
+      expect(
+        malformedIdField({ id: "1001", conversation: { id }, from: { id: "29:x" } }),
+      ).toBeNull();
+    }
+  });
+
+  it("names the first malformed field", () => {
+    expect(malformedIdField({ conversation: { id: "19:a\u0000b@thread.v2" } })).toBe(
+      "conversation.id",
+    );
+    expect(malformedIdField({ conversation: { id: "C0GENERAL" } })).toBe("conversation.id");
+    expect(malformedIdField({ from: { id: "29:ana", aadObjectId: "aad\u001b[2J" } })).toBe(
+      "from.aadObjectId",
+    );
+    expect(malformedIdField({ channelData: { team: { id: "19:t @thread.skype" } } })).toBe(
+      "channelData.team.id",
     );
   });
 });

@@ -214,6 +214,8 @@ describe("Teams adapter over HTTP (authentication off, real CloudAdapter)", () =
     const bad = [
       { conversation: { ...conversation, id: "19:gen\u0000eral@thread.tacv2" } },
       { conversation: { ...conversation, id: "19:general\u001b[2J@thread.tacv2" } },
+      { conversation: { ...conversation, id: "general-channel" } },
+      { conversation: { ...conversation, id: "19:general0001@thread.tacv2;messageid=x;y" } },
       { from: { ...from, aadObjectId: "aad ana" } },
       { id: "17000\u009b2J" },
     ];
