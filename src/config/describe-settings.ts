@@ -48,6 +48,16 @@ const ROWS: readonly SettingRow[] = [
   },
   { setting: "HOST", default: DEFAULT_HOST, meaning: "Address the HTTP server listens on" },
   { setting: "PORT", default: String(DEFAULT_PORT), meaning: "Port the HTTP server listens on" },
+  {
+    setting: "PLUMBLINE_PG_CONNECT_TIMEOUT_MS",
+    default: "5000",
+    meaning: "PostgreSQL: milliseconds to wait for a connection before STORE_UNAVAILABLE",
+  },
+  {
+    setting: "PLUMBLINE_PG_STATEMENT_TIMEOUT_MS",
+    default: "30000",
+    meaning: "PostgreSQL: statement_timeout of the bot's sessions, in milliseconds",
+  },
   { setting: "LOG_LEVEL", default: "info", meaning: "debug, info, warn or error" },
   {
     setting: "PLUMBLINE_REPLICA_ID",
@@ -58,7 +68,7 @@ const ROWS: readonly SettingRow[] = [
     setting: "PLUMBLINE_REPORT_SECRET",
     default: null,
     meaning:
-      "Signs the 24-hour report-page links (at least 16 characters; same on every replica). Unset: a random secret per process",
+      "Signs the 24-hour report-page links (at least 16 characters; same on every replica). Unset: a random secret kept in the store, shared by its replicas",
   },
   {
     setting: "PLUMBLINE_PUBLIC_URL",

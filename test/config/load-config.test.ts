@@ -29,6 +29,8 @@ describe("loadConfig", () => {
       databaseUrl: "sqlite:./data/plumbline.db",
       idKey: null,
       idKeyFile: null,
+      pgConnectTimeoutMs: 5000,
+      pgStatementTimeoutMs: 30_000,
       facilitators: [],
       retentionDays: 91,
       host: "0.0.0.0",
