@@ -3,7 +3,8 @@
  * `plumbline serve`: the composition root of the running bot. Reads the configuration once
  * (refusing to start, naming every missing or malformed setting), opens the store, builds the
  * Slack and/or Teams adapters that are configured, one bot over both, one HTTP server for their
- * routes plus `/healthz`, the scheduler (digests and notes) and the daily retention purge.
+ * routes plus `/healthz` (liveness) and `/readyz` (readiness: store writable, schema current, any
+ * added probe such as the worker pool's), the scheduler (digests and notes) and the daily retention purge.
  */
 import type { Server } from "node:http";
 import pino from "pino";
@@ -18,8 +19,9 @@ import type { Store } from "../src/ports/store.js";
 import { openStore } from "../src/store/open-store.js";
 import { type Bot, createBot } from "./create-bot.js";
 import type { PlatformAdapter } from "./platform-adapter.js";
+import { type ReadinessProbe, readiness, watchWrites } from "./readiness.js";
 import { createReportRoute } from "./report-route.js";
-import { createRouteServer, listen } from "./route-server.js";
+import { createRouteServer, listen, type ServerLimits } from "./route-server.js";
 import { RoutingPlatform } from "./routing-platform.js";
 
 /** The name of the report-link secret in the store. */
@@ -42,6 +44,12 @@ export interface ServeOptions {
   readonly logger?: Logger;
   /** Start the scheduler's timer (tests drive `bot.scheduler.tick()` themselves). */
   readonly schedule?: boolean;
+  /** More `/readyz` checks by name, e.g. `workers` for the analysis pool. */
+  readonly readinessProbes?: Readonly<Record<string, ReadinessProbe>>;
+  /** Wraps the opened store (tests inject failing stores); default as opened. */
+  readonly wrapStore?: (store: Store) => Store;
+  /** The HTTP server's timeouts and connection cap; default DEFAULT_SERVER_LIMITS. */
+  readonly serverLimits?: Partial<ServerLimits>;
 }
 
 export function pinoLogger(config: Config): Logger {
@@ -78,13 +86,15 @@ export async function serve(options: ServeOptions): Promise<RunningServer> {
   requirePlatform(config);
   const logger = options.logger ?? pinoLogger(config);
   const clock = options.clock ?? systemClock;
-  const store = await openStore(config.databaseUrl, {
+  const opened = await openStore(config.databaseUrl, {
     ...(options.cwd ? { cwd: options.cwd } : {}),
     ...(config.idKey ? { idKey: config.idKey } : {}),
     ...(config.idKeyFile ? { idKeyFile: config.idKeyFile } : {}),
     connectTimeoutMs: config.pgConnectTimeoutMs,
     statementTimeoutMs: config.pgStatementTimeoutMs,
   });
+  const watched = watchWrites(options.wrapStore ? options.wrapStore(opened) : opened, clock);
+  const store = watched.store;
   const adapters = await buildAdapters(config, logger);
   const platform = new RoutingPlatform(
     adapters.map((a) => ({ prefix: a.channelPrefix, platform: a.platform })),
@@ -118,7 +128,14 @@ export async function serve(options: ServeOptions): Promise<RunningServer> {
   const server = createRouteServer({
     routes: [...adapters.flatMap((a) => a.routes), reports],
     health: () => ({ ok: true, store: store.kind, platforms: adapters.map((a) => a.name) }),
+    ready: readiness({
+      store,
+      watched,
+      clock,
+      ...(options.readinessProbes ? { probes: options.readinessProbes } : {}),
+    }),
     logger,
+    ...(options.serverLimits ? { limits: options.serverLimits } : {}),
   });
   for (const adapter of adapters) await adapter.start(bot);
   const port = await listen(server, config.port, config.host);

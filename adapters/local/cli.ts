@@ -5,6 +5,7 @@
  * error a user can cause prints one line naming the problem and the fix, and exits with code 2.
  */
 import { isPlumblineError } from "../../src/domain/errors.js";
+import { printable } from "../../src/report/printable.js";
 import { runAnalyze, runCompare, runWhatIf } from "./cli-analyze.js";
 import { runConsole } from "./cli-console.js";
 import { runDemo } from "./cli-demo.js";
@@ -90,7 +91,14 @@ Model flags (analyze, compare, whatif): --channel C --until TIME --window DAYS -
 Ranges are YYYY-MM-DD..YYYY-MM-DD, both days included (UTC).
 `;
 
-export async function main(argv: readonly string[], io: CliIo): Promise<number> {
+export async function main(argv: readonly string[], given: CliIo): Promise<number> {
+  // Every text the CLI writes (reports, the console, errors naming bad input) has its control
+  // characters escaped, so ids holding terminal escape sequences print as visible text.
+  const io: CliIo = {
+    ...given,
+    stdout: (text) => given.stdout(printable(text)),
+    stderr: (text) => given.stderr(printable(text)),
+  };
   const [name, ...rest] = argv;
   if (name === undefined || name === "help" || name === "--help" || name === "-h") {
     io.stdout(HELP);

@@ -2,7 +2,9 @@
  * @module guarded-receiver
  * A Bolt `Receiver` for HTTP mode that plugs into the shared server as the `/slack/events` route.
  * Each request passes the request guard first, then: `url_verification` is answered with its
- * challenge; an Events API envelope without `event_id`, `team_id` or `event` gets 400; everything
+ * challenge; an Events API envelope without `event_id`, `team_id` or `event`, or a slash command
+ * whose team, channel or user id is not shaped like a Slack id (`[A-Z0-9]+`: no NUL, control
+ * character or escape sequence reaches the store or a terminal), gets 400; everything
  * else goes to `app.processEvent`. Events API deliveries are answered only after the listeners
  * finish (what Bolt calls `processBeforeResponse`), so a failed ingest answers 500 and Slack
  * retries; slash commands and interactivity are answered as soon as the listener calls `ack()`.
@@ -11,6 +13,8 @@ import type { IncomingMessage, ServerResponse } from "node:http";
 import type { App, Receiver } from "@slack/bolt";
 import type { Logger } from "../../src/ports/logger.js";
 import type { HttpRoute } from "../platform-adapter.js";
+import { type RateLimitedLog, rateLimitedLog } from "../rate-limited-log.js";
+import { isSlackId } from "./channel-ids.js";
 import { isRecord } from "./map-message.js";
 import { type GuardOptions, guardRequest } from "./request-guard.js";
 
@@ -48,10 +52,18 @@ function retryHeaders(request: IncomingMessage): { retryNum?: number; retryReaso
   };
 }
 
-/** Missing envelope field of an `event_callback`, or null when it is complete. */
+/** The first id of a slash command that is not shaped like a Slack id, or null. */
+function commandProblem(body: Record<string, unknown>): string | null {
+  for (const field of ["team_id", "channel_id", "user_id"]) {
+    if (!isSlackId(body[field])) return field;
+  }
+  return null;
+}
+
+/** Missing or malformed envelope field of an `event_callback`, or null when it is complete. */
 function envelopeProblem(body: Record<string, unknown>): string | null {
   if (typeof body.event_id !== "string" || body.event_id === "") return "event_id";
-  if (typeof body.team_id !== "string" || body.team_id === "") return "team_id";
+  if (!isSlackId(body.team_id)) return "team_id";
   if (!isRecord(body.event) || typeof body.event.type !== "string") return "event.type";
   return null;
 }
@@ -59,9 +71,12 @@ function envelopeProblem(body: Record<string, unknown>): string | null {
 export class GuardedReceiver implements Receiver {
   private app: App | null = null;
   readonly route: HttpRoute;
+  /** Refusals are logged one line each, at most 10 a minute (anyone can send them). */
+  private readonly refusals: RateLimitedLog;
 
   constructor(private readonly options: GuardedReceiverOptions) {
     this.route = { path: SLACK_EVENTS_PATH, handle: (req, res) => this.handle(req, res) };
+    this.refusals = rateLimitedLog({ logger: options.logger, now: options.now });
   }
 
   init(app: App): void {
@@ -81,7 +96,11 @@ export class GuardedReceiver implements Receiver {
     }
     const outcome = await guardRequest(request, this.options);
     if (!outcome.ok) {
-      logger.warn({ status: outcome.status, reason: outcome.reason }, "slack request refused");
+      this.refusals(
+        "warn",
+        { status: outcome.status, reason: outcome.reason },
+        "slack request refused",
+      );
       const close: Record<string, string> = outcome.status === 413 ? { connection: "close" } : {};
       send(response, outcome.status, { ok: false, error: outcome.reason }, close);
       return;
@@ -95,12 +114,20 @@ export class GuardedReceiver implements Receiver {
       send(response, 200, "");
       return;
     }
+    if (outcome.form === "urlencoded" && typeof body.command === "string") {
+      const bad = commandProblem(body);
+      if (bad !== null) {
+        logger.warn({ field: bad }, "slack command with a malformed id; not run");
+        send(response, 400, { ok: false, error: `malformed ${bad}` });
+        return;
+      }
+    }
     const isEvent = body.type === "event_callback";
     if (isEvent) {
       const missing = envelopeProblem(body);
       if (missing !== null) {
         logger.warn({ field: missing }, "slack event envelope incomplete; not counted");
-        send(response, 400, { ok: false, error: `missing ${missing}` });
+        send(response, 400, { ok: false, error: `missing or malformed ${missing}` });
         return;
       }
     } else if (outcome.form === "json") {

@@ -4,14 +4,20 @@
  * keeping ids and times only: mentions come from the rich_text `user` elements, else from `<@U…>`
  * in the text, and the text itself is dropped here (it is never returned, stored or logged).
  * Thread replies carry `thread_ts` (the root's ts, the parent's id) and `parent_user_id` (its
- * author); `message_changed` becomes an `edit` of the original ts with the new mention list,
+ * author); blocks nested deeper than MAX_BLOCK_DEPTH are not walked (the text's mentions count
+ * instead), so no payload can exhaust the stack; `message_changed` becomes an `edit` of the original ts with the new mention list,
  * `message_deleted` a `delete` of `deleted_ts`. Bot messages and the bot's own are ignored.
  */
 import type { ChatEvent } from "../../src/domain/events.js";
 import { coreChannelId, isSlackId } from "./channel-ids.js";
 
 export type MappedMessage =
-  | { readonly kind: "event"; readonly event: ChatEvent }
+  | {
+      readonly kind: "event";
+      readonly event: ChatEvent;
+      /** Mentions were read from the text because the blocks nest too deep. */
+      readonly blocksTooDeep?: boolean;
+    }
   | { readonly kind: "ignored"; readonly reason: string }
   /** A message event missing a field it needs; nothing is stored. */
   | { readonly kind: "invalid"; readonly field: string };
@@ -46,27 +52,59 @@ export function tsToMillis(ts: string | undefined): number | null {
   return Math.round(Number(ts) * 1000);
 }
 
-function walkRichText(node: unknown, into: Set<string>): void {
-  if (Array.isArray(node)) {
-    for (const child of node) walkRichText(child, into);
-    return;
+/**
+ * Deepest nesting of rich_text blocks read (Slack's own blocks nest a handful of levels: block,
+ * section or list, elements). Deeper blocks are not walked: a payload crafted to nest thousands
+ * of levels would otherwise cost a stack frame per level.
+ */
+export const MAX_BLOCK_DEPTH = 32;
+
+/** Adds each rich_text `user` element's id; false (and nothing added) when nested too deep. */
+function walkRichText(root: unknown, into: Set<string>): boolean {
+  const found: string[] = [];
+  const stack: { node: unknown; depth: number }[] = [{ node: root, depth: 0 }];
+  for (let item = stack.pop(); item !== undefined; item = stack.pop()) {
+    const { node, depth } = item;
+    if (depth > MAX_BLOCK_DEPTH) return false;
+    if (Array.isArray(node)) {
+      for (const child of node) stack.push({ node: child, depth: depth + 1 });
+      continue;
+    }
+    if (!isRecord(node)) continue;
+    if (node.type === "user" && isSlackId(node.user_id)) found.push(node.user_id);
+    if (node.elements !== undefined) stack.push({ node: node.elements, depth: depth + 1 });
   }
-  if (!isRecord(node)) return;
-  if (node.type === "user" && isSlackId(node.user_id)) into.add(node.user_id);
-  if (node.elements !== undefined) walkRichText(node.elements, into);
+  for (const id of found) into.add(id);
+  return true;
 }
 
-/** Mentioned user ids of a message: rich_text `user` elements, else `<@U…>` in the text. */
-export function mentionsOf(message: Record<string, unknown>): string[] {
+export interface Mentions {
+  readonly ids: string[];
+  /** The blocks nested deeper than MAX_BLOCK_DEPTH, so the mentions came from the text. */
+  readonly blocksTooDeep: boolean;
+}
+
+function textMentions(message: Record<string, unknown>, into: Set<string>): void {
+  if (typeof message.text !== "string") return;
+  for (const match of message.text.matchAll(TEXT_MENTION)) into.add(match[1]);
+}
+
+/**
+ * Mentioned user ids of a message: rich_text `user` elements, else `<@U…>` in the text (also
+ * when the blocks nest deeper than MAX_BLOCK_DEPTH).
+ */
+export function mentionsOf(message: Record<string, unknown>): Mentions {
   const blocks = Array.isArray(message.blocks) ? message.blocks : [];
   const rich = blocks.filter((b) => isRecord(b) && b.type === "rich_text");
   const found = new Set<string>();
+  let blocksTooDeep = false;
   if (rich.length > 0) {
-    walkRichText(rich, found);
-  } else if (typeof message.text === "string") {
-    for (const match of message.text.matchAll(TEXT_MENTION)) found.add(match[1]);
+    blocksTooDeep = !walkRichText(rich, found);
+    if (blocksTooDeep) textMentions(message, found);
+  } else {
+    textMentions(message, found);
   }
-  return [...found].sort();
+  return { ids: [...found].sort(), blocksTooDeep };
 }
 
 function fromBot(message: Record<string, unknown>, botUserId: string): boolean {
@@ -97,7 +135,12 @@ export function mapMessage(input: MapMessageInput): MappedMessage {
       return { kind: "invalid", field: "event.message.ts" };
     }
     if (at === null) return { kind: "invalid", field: "event.ts" };
-    return { kind: "event", event: { type: "edit", at, channel, id, mentions: mentionsOf(inner) } };
+    const mentions = mentionsOf(inner);
+    return {
+      kind: "event",
+      event: { type: "edit", at, channel, id, mentions: mentions.ids },
+      ...(mentions.blocksTooDeep ? { blocksTooDeep: true } : {}),
+    };
   }
   if (subtype === "message_deleted") {
     const id = field(event, "deleted_ts");
@@ -120,8 +163,10 @@ export function mapMessage(input: MapMessageInput): MappedMessage {
   const threadTs = field(event, "thread_ts");
   const isReply = threadTs !== undefined && threadTs !== id && tsToMillis(threadTs) !== null;
   const parentAuthor = field(event, "parent_user_id");
+  const mentions = mentionsOf(event);
   return {
     kind: "event",
+    ...(mentions.blocksTooDeep ? { blocksTooDeep: true } : {}),
     event: {
       type: "message",
       at,
@@ -130,7 +175,7 @@ export function mapMessage(input: MapMessageInput): MappedMessage {
       author,
       ...(isReply ? { parent: threadTs } : {}),
       ...(isReply && isSlackId(parentAuthor) ? { parentAuthor } : {}),
-      mentions: mentionsOf(event),
+      mentions: mentions.ids,
     },
   };
 }

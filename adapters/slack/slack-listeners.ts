@@ -12,7 +12,7 @@ import type { Logger } from "../../src/ports/logger.js";
 import type { Bot } from "../create-bot.js";
 import { coreChannelId, isSlackId } from "./channel-ids.js";
 import { errorCode } from "./guarded-receiver.js";
-import { isRecord, mapMessage } from "./map-message.js";
+import { isRecord, MAX_BLOCK_DEPTH, mapMessage } from "./map-message.js";
 import type { MemberDirectory } from "./member-directory.js";
 import { renderBlockKit } from "./render-block-kit.js";
 
@@ -35,6 +35,13 @@ export interface ListenerDeps {
 /** The delivery key of an Events API envelope: its `event_id`, marked as Slack's. */
 export function deliveryKey(eventId: string): string {
   return `slack:${eventId}`;
+}
+
+/** The command's `trigger_id` as the request id of its delivery keys, when it has a sane shape. */
+function requestIdOf(triggerId: unknown): { requestId?: string } {
+  return typeof triggerId === "string" && /^[\w.-]{1,128}$/.test(triggerId)
+    ? { requestId: `slack:${triggerId}` }
+    : {};
 }
 
 function requireBot(deps: ListenerDeps): Bot {
@@ -70,6 +77,12 @@ export function registerListeners(app: App, deps: ListenerDeps): void {
     if (mapped.kind === "ignored") {
       logger.debug({ event: body.event_id, reason: mapped.reason }, "slack message not counted");
       return;
+    }
+    if (mapped.blocksTooDeep) {
+      logger.warn(
+        { event: body.event_id, maxDepth: MAX_BLOCK_DEPTH },
+        "slack blocks nest too deep; mentions read from the text",
+      );
     }
     const bot = requireBot(deps);
     await ensureChannel(bot, mapped.event.channel, body.team_id);
@@ -136,6 +149,7 @@ export function registerListeners(app: App, deps: ListenerDeps): void {
         text: command.text ?? "",
         isPlatformAdmin,
         inThread: false,
+        ...requestIdOf(raw.trigger_id),
       });
       await respond({
         response_type: answer.visibility === "channel" ? "in_channel" : "ephemeral",

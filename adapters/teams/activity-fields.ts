@@ -50,6 +50,38 @@ function text(value: unknown): string | null {
   return typeof value === "string" && value !== "" ? value : null;
 }
 
+/**
+ * Teams and Bot Framework ids are printable ASCII without spaces: conversations
+ * `19:…@thread.tacv2` (with `;messageid=…` in a thread) or `a:…` (personal), accounts `29:…`,
+ * Entra object ids (GUIDs), numeric message ids. Anything else (NUL, control characters, escape
+ * sequences, spaces, other scripts) is refused before it reaches the store.
+ */
+const TEAMS_ID = /^[\x21-\x7e]{1,512}$/;
+
+export function isTeamsId(value: unknown): value is string {
+  return typeof value === "string" && TEAMS_ID.test(value);
+}
+
+/** The first id field of the activity that is present but malformed, or null. */
+export function malformedIdField(activity: ActivityLike): string | null {
+  const data = record(activity.channelData);
+  const fields: [string, unknown][] = [
+    ["id", activity.id],
+    ["conversation.id", activity.conversation?.id],
+    ["conversation.tenantId", activity.conversation?.tenantId],
+    ["from.id", activity.from?.id],
+    ["from.aadObjectId", activity.from?.aadObjectId],
+    ["replyToId", activity.replyToId],
+    ["channelData.team.id", record(data?.team)?.id],
+    ["channelData.channel.id", record(data?.channel)?.id],
+    ["channelData.tenant.id", record(data?.tenant)?.id],
+  ];
+  for (const [name, value] of fields) {
+    if (value !== undefined && value !== null && value !== "" && !isTeamsId(value)) return name;
+  }
+  return null;
+}
+
 /** `teams:` + the conversation id without any `;messageid=` suffix. */
 export function coreChannelId(conversationId: string): string {
   const cut = conversationId.indexOf(THREAD_MARK);

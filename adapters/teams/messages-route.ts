@@ -3,13 +3,21 @@
  * `POST /api/messages` around `CloudAdapter.process`. The SDK expects a parsed body and throws,
  * outside its own error handling, on a body without an activity type (botbuilder 4.23
  * `cloudAdapter.js`; an unauthenticated `{}` crashed the process in our probe), so this route reads
- * the body itself: over 1 MB → 413, not JSON → 400, not an object with a string `type` → 400,
- * and any error escaping the SDK → 500 while the process keeps serving.
+ * the body itself: over 1 MB → 413, not JSON → 400, not an object with a string `type` → 400.
+ * The request is then authenticated apart from the turn: any failure there (a bad token, or keys
+ * that cannot be fetched) is 401 with an empty body and one rate-limited log line naming the
+ * error's class, never the SDK's message (which held a fetch error). An authenticated activity
+ * with an id that is not printable ASCII (`malformedIdField`) gets 400. An error in the turn itself
+ * answers 500, so Teams redelivers, while the process keeps serving. Whatever the SDK prints to
+ * the console meanwhile goes to the log as one short debug line (`sdk-console.ts`).
  */
 import type { IncomingMessage, ServerResponse } from "node:http";
-import type { CloudAdapter, TurnContext } from "botbuilder";
+import type { Activity, CloudAdapter, TurnContext } from "botbuilder";
 import type { Logger } from "../../src/ports/logger.js";
 import type { HttpRoute } from "../platform-adapter.js";
+import { type RateLimitedLog, rateLimitedLog } from "../rate-limited-log.js";
+import { malformedIdField } from "./activity-fields.js";
+import { withSdkConsole } from "./sdk-console.js";
 
 export const MESSAGES_PATH = "/api/messages";
 export const MAX_BODY_BYTES = 1024 * 1024;
@@ -58,47 +66,52 @@ export function parseActivityBody(body: Buffer): Record<string, unknown> | null 
   return typeof type === "string" && type !== "" ? (value as Record<string, unknown>) : null;
 }
 
-/** The SDK's response shape (`status`, `header`, `send`, `end`) over a node response. */
-function sdkResponse(response: ServerResponse) {
-  let status = 200;
-  let payload: string | undefined;
-  return {
-    socket: response.socket,
-    status(code: number) {
-      status = code;
-      return this;
-    },
-    header(name: string, value: unknown) {
-      response.setHeader(name, String(value));
-      return this;
-    },
-    send(body?: unknown) {
-      if (body === undefined) return this;
-      if (typeof body === "string") payload = body;
-      else {
-        payload = JSON.stringify(body);
-        response.setHeader("content-type", "application/json");
-      }
-      return this;
-    },
-    end() {
-      if (response.headersSent) return this;
-      response.statusCode = status;
-      response.end(payload);
-      return this;
-    },
-  };
+/** What `authenticate` gives and the turn takes (a type of botframework-connector, via botbuilder). */
+type AuthenticateRequestResult = Exclude<
+  Parameters<CloudAdapter["processActivityDirect"]>[0],
+  string
+>;
+
+/** Dates of the activity as the SDK's own `validateAndFixActivity` sets them (botbuilder 4.23). */
+function fixDates(activity: Record<string, unknown>): Activity {
+  for (const [field, raw] of [
+    ["timestamp", "rawTimestamp"],
+    ["expiration", "rawExpiration"],
+    ["localTimestamp", "rawLocalTimestamp"],
+  ] as const) {
+    const value = activity[field];
+    if (typeof value === "string") {
+      activity[raw] = value;
+      activity[field] = new Date(value);
+    }
+  }
+  return activity as unknown as Activity;
 }
 
 export interface MessagesRouteOptions {
   readonly adapter: CloudAdapter;
+  /** Checks the request's token (the adapter's `BotFrameworkAuthentication.authenticateRequest`). */
+  readonly authenticate: (
+    activity: Activity,
+    authHeader: string,
+  ) => Promise<AuthenticateRequestResult>;
   readonly logic: (context: TurnContext) => Promise<void>;
   readonly logger: Logger;
+  /** Epoch ms, for the refusal log's rate limit. */
+  readonly now: () => number;
   readonly maxBodyBytes?: number;
+}
+
+function authHeaderOf(request: IncomingMessage): string {
+  const value = request.headers.authorization;
+  return typeof value === "string" ? value : "";
 }
 
 export function messagesRoute(options: MessagesRouteOptions): HttpRoute {
   const limit = options.maxBodyBytes ?? MAX_BODY_BYTES;
+  const refusals: RateLimitedLog = rateLimitedLog({ logger: options.logger, now: options.now });
+  const sdkLine = ({ method, error }: { method: string; error: string }) =>
+    options.logger.debug({ method, error }, "teams sdk console output");
   return {
     path: MESSAGES_PATH,
     async handle(request, response) {
@@ -125,16 +138,41 @@ export function messagesRoute(options: MessagesRouteOptions): HttpRoute {
         answer(response, 400, "the body must be a JSON activity with a type");
         return;
       }
-      const req = { body: activity, headers: request.headers, method: request.method };
-      try {
-        await options.adapter.process(req, sdkResponse(response), options.logic);
-      } catch (error) {
-        options.logger.error(
-          { error: error instanceof Error ? error.name : "unknown" },
-          "teams activity failed before the turn",
-        );
-        answer(response, 500, "the activity could not be processed");
-      }
+      const fixed = fixDates(activity);
+      await withSdkConsole(sdkLine, async () => {
+        let auth: AuthenticateRequestResult;
+        try {
+          auth = await options.authenticate(fixed, authHeaderOf(request));
+        } catch (error) {
+          refusals(
+            "warn",
+            { status: 401, error: error instanceof Error ? error.name : typeof error },
+            "teams request refused",
+          );
+          response.writeHead(401);
+          response.end();
+          return;
+        }
+        const malformed = malformedIdField(fixed);
+        if (malformed !== null) {
+          refusals("warn", { status: 400, field: malformed }, "teams activity with a malformed id");
+          answer(response, 400, `malformed ${malformed}`);
+          return;
+        }
+        try {
+          await options.adapter.processActivityDirect(auth, fixed, options.logic);
+          if (!response.headersSent) {
+            response.writeHead(200);
+            response.end();
+          }
+        } catch (error) {
+          options.logger.error(
+            { error: error instanceof Error ? error.name : "unknown" },
+            "teams activity failed",
+          );
+          answer(response, 500, "the activity could not be processed");
+        }
+      });
     },
   };
 }

@@ -3,12 +3,14 @@
  * Paces and retries sends per Teams conversation. Sends to one conversation run one at a time and
  * at most `perSecond` in any rolling second (Teams allows 7 sends per second per bot per
  * conversation: learn.microsoft.com/microsoftteams/platform/bots/how-to/rate-limit). A send that
- * Teams refused for capacity — HTTP 429, 412, 502 or 504, the codes that page says to retry, or a
- * refused connection — is tried again after an exponential delay with jitter ("equal jitter",
- * M. Brooker, 2015, "Exponential Backoff And Jitter", AWS Architecture Blog), never shorter than a
- * `Retry-After` header. Any other failure, including a timeout or a reset connection whose outcome
- * is unknown, is thrown at once: a post is never resent when it may have arrived. Time and sleep
- * are injected, so tests never wait.
+ * Teams certainly refused — HTTP 429 or 412 (throttled) or a refused connection — is tried again
+ * after an exponential delay with jitter ("equal jitter", M. Brooker, 2015, "Exponential Backoff
+ * And Jitter", AWS Architecture Blog), never shorter than a `Retry-After` header. A 502 or 504
+ * comes from a gateway that may already have passed the post on: its outcome is unknown, so it is
+ * thrown at once (the caller records a miss, as for Slack) and only the conversation's next send
+ * waits out the back-off. Any other failure, including a timeout or a reset connection, is thrown
+ * at once: a post is never resent when it may have arrived. Time and sleep are injected, so tests
+ * never wait.
  */
 
 export interface SendQueueOptions {
@@ -24,7 +26,9 @@ export interface SendQueueOptions {
   readonly random?: () => number;
 }
 
-const RETRY_STATUSES = new Set([412, 429, 502, 504]);
+const RETRY_STATUSES = new Set([412, 429]);
+/** Gateway failures: the post may have arrived, so never resent; later sends back off. */
+const BACK_OFF_STATUSES = new Set([502, 504]);
 const RETRY_CODES = new Set(["ECONNREFUSED"]);
 
 function field(value: unknown, key: string): unknown {
@@ -67,6 +71,8 @@ export function isRetryable(error: unknown): boolean {
 export class SendQueue {
   private readonly tails = new Map<string, Promise<unknown>>();
   private readonly recent = new Map<string, number[]>();
+  /** Per conversation: no send before this time (ms), after a gateway failure. */
+  private readonly coolUntil = new Map<string, number>();
   private readonly perSecond: number;
   private readonly maxAttempts: number;
   private readonly baseDelayMs: number;
@@ -105,6 +111,11 @@ export class SendQueue {
       try {
         return await attempt();
       } catch (error) {
+        const status = statusOf(error);
+        if (status !== null && BACK_OFF_STATUSES.has(status)) {
+          const wait = Math.max(this.backoffMs(1), retryAfterMs(error, this.options.now()) ?? 0);
+          this.coolUntil.set(key, this.options.now() + wait);
+        }
         if (!isRetryable(error) || tries >= this.maxAttempts) throw error;
         const wait = Math.max(this.backoffMs(tries), retryAfterMs(error, this.options.now()) ?? 0);
         await this.options.sleep(wait);
@@ -113,6 +124,12 @@ export class SendQueue {
   }
 
   private async pace(key: string): Promise<void> {
+    const until = this.coolUntil.get(key);
+    if (until !== undefined) {
+      this.coolUntil.delete(key);
+      const now = this.options.now();
+      if (until > now) await this.options.sleep(until - now);
+    }
     const window = this.recent.get(key) ?? [];
     for (;;) {
       const now = this.options.now();

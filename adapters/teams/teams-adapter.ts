@@ -78,9 +78,8 @@ export async function createTeamsAdapter(options: TeamsAdapterOptions): Promise<
       "Teams credentials are set, so the development flag is ignored",
     );
   }
-  const adapter = new CloudAdapter(
-    new ConfigurationBotFrameworkAuthentication({}, credentialFactory(config)),
-  );
+  const auth = new ConfigurationBotFrameworkAuthentication({}, credentialFactory(config));
+  const adapter = new CloudAdapter(auth);
   adapter.use({
     async onTurn(context: TurnContext, next: () => Promise<void>) {
       disableSdkRetries(context.turnState.get(context.adapter.ConnectorClientKey));
@@ -111,7 +110,15 @@ export async function createTeamsAdapter(options: TeamsAdapterOptions): Promise<
     name: "teams",
     channelPrefix: TEAMS_CHANNEL_PREFIX,
     platform,
-    routes: [messagesRoute({ adapter, logic: (context) => handler.run(context), logger })],
+    routes: [
+      messagesRoute({
+        adapter,
+        authenticate: (activity, header) => auth.authenticateRequest(activity, header),
+        logic: (context) => handler.run(context),
+        logger,
+        now,
+      }),
+    ],
     async start(bot: Bot) {
       platform.attach(bot.store);
       handler.attach(bot);

@@ -154,6 +154,9 @@ export class PlumblineTeamsHandler extends TeamsActivityHandler {
       text: request.words,
       isPlatformAdmin: await this.isTeamOwner(context),
       inThread: root !== null && root !== activity.id,
+      ...(typeof activity.id === "string" && activity.id !== ""
+        ? { requestId: `teams:${activity.id}` }
+        : {}),
     });
     if (response.visibility === "channel") {
       await this.options.platform.postToChannel(request.channel, response.message);

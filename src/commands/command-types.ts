@@ -19,6 +19,12 @@ export interface CommandContext {
   readonly isPlatformAdmin: boolean;
   /** The command was typed inside a thread. */
   readonly inThread?: boolean;
+  /**
+   * The platform's id of this request (Slack `trigger_id`, Teams activity id). Delivery keys of
+   * what the command records use it, so a request delivered to two replicas is recorded once;
+   * absent (console), they use `now`.
+   */
+  readonly requestId?: string;
 }
 
 export interface CommandDeps {

@@ -10,6 +10,7 @@ import { PlumblineError } from "../domain/errors.js";
 import { ingest } from "../ingest/ingest.js";
 import { settingsRows } from "../report/member-blocks.js";
 import { readChannelSettings, writeChannelSettings } from "./channel-settings-store.js";
+import { commandOccurrence } from "./command-keys.js";
 import type { CommandContext, CommandDeps, CommandResponse } from "./command-types.js";
 import { consentAt, snapshotIds } from "./member-view.js";
 import { parseMember } from "./parse-input.js";
@@ -97,7 +98,7 @@ export async function group(
       `${name} has not joined, so there is nothing to label: groups apply only to members who opted in with /influence join. Nothing was changed.`,
     );
   }
-  const key = `cmd:group:${context.channel}:${store.memberKey(member)}:${context.now}:${label ?? ""}`;
+  const key = `cmd:group:${context.channel}:${store.memberKey(member)}:${commandOccurrence(context)}:${label ?? ""}`;
   await ingest(
     store,
     { type: "group", at: context.now, channel: context.channel, member, group: label },

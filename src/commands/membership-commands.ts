@@ -12,6 +12,7 @@ import { ingest } from "../ingest/ingest.js";
 import { CONSENT_NOTICE_VERSION, consentNoticeBlocks } from "../report/consent-notice.js";
 import { statusBlocks } from "../report/member-blocks.js";
 import { viewChannel } from "./analysis-commands.js";
+import { commandOccurrence } from "./command-keys.js";
 import type { CommandContext, CommandDeps, CommandResponse } from "./command-types.js";
 import { consentChangeAt, optedInCount, snapshotIds } from "./member-view.js";
 import { nextDigestAt } from "./next-digest.js";
@@ -29,9 +30,10 @@ export function consentDeliveryKey(args: {
   channel: string;
   memberKey: string;
   level: ConsentLevel;
-  at: number;
+  /** `commandOccurrence(context)`. */
+  occurrence: string;
 }): string {
-  return `cmd:consent:${args.channel}:${args.memberKey}:${args.level}:${args.at}`;
+  return `cmd:consent:${args.channel}:${args.memberKey}:${args.level}:${args.occurrence}`;
 }
 
 /** `join [named]`. */
@@ -75,7 +77,7 @@ export async function join(
       channel: context.channel,
       memberKey: store.memberKey(context.member),
       level,
-      at: context.now,
+      occurrence: commandOccurrence(context),
     }),
     { receivedAt: context.now },
   );

@@ -13,6 +13,12 @@ export function words(text: string): string[] {
 }
 
 const MENTION = /^<@([^|>\s]+)(?:\|[^>]*)?>$/;
+/**
+ * A member id: letters and digits of any script, and `_ . : + / = -` after the first (Slack
+ * `U123`, Teams `29:1a-b`, Entra GUIDs, console names like `zoë`), optionally behind the `~` of a
+ * pseudonym; at most 128 characters. Emoji, control characters and escape sequences are not ids.
+ */
+const MEMBER_ID = /^~?[\p{L}\p{N}][\p{L}\p{M}\p{N}_.:+/=-]{0,127}$/u;
 
 /** The platform id in a member argument; ARG_BAD_VALUE when it is not one. */
 export function parseMember(word: string | undefined, usage: string): string {
@@ -27,6 +33,13 @@ export function parseMember(word: string | undefined, usage: string): string {
     throw new PlumblineError("ARG_BAD_VALUE", `"${word}" is not a member`, {
       hint: `mention the member, as in: /influence ${usage}`,
     });
+  }
+  if (!MEMBER_ID.test(id)) {
+    throw new PlumblineError(
+      "ARG_BAD_VALUE",
+      `"${word}" is not a member: a member id is letters and digits (with . _ : - inside)`,
+      { hint: `mention the member with @, as in: /influence ${usage}` },
+    );
   }
   return id;
 }

@@ -1,7 +1,9 @@
 /**
  * @module describe-settings
- * The settings table for the docs (DEVELOPERS.md, README): each environment variable with its
- * default and meaning, in the schema's order. A test keeps it in step with the schema.
+ * The settings table for the docs: each environment variable with its default and meaning, in
+ * the schema's order, then the few the CLI reads outside the schema. It is the one source of the
+ * README's table (`renderSettingsTable`); tests keep it in step with the schema, with every
+ * variable the code reads, and with the README.
  */
 import {
   DEFAULT_DATABASE_URL,
@@ -13,8 +15,12 @@ import {
   RETENTION_DAYS_LIMITS,
 } from "./env-schema.js";
 
+/** Variables read outside the schema, by the CLI only. */
+export const CLI_ONLY_SETTINGS = ["PLUMBLINE_DEBUG"] as const;
+export type CliOnlySetting = (typeof CLI_ONLY_SETTINGS)[number];
+
 export interface SettingRow {
-  readonly setting: EnvKey;
+  readonly setting: EnvKey | CliOnlySetting;
   /** The default as text; null when the setting has none (unset = feature off or generated). */
   readonly default: string | null;
   readonly meaning: string;
@@ -121,6 +127,11 @@ const ROWS: readonly SettingRow[] = [
     default: "0",
     meaning: "1: run Teams without app credentials, i.e. without authentication (development only)",
   },
+  {
+    setting: "PLUMBLINE_DEBUG",
+    default: null,
+    meaning: "CLI only: any value prints the stack of an internal error",
+  },
 ];
 
 /** Rows (setting, default, meaning) for the documentation's settings table. */
@@ -129,3 +140,17 @@ export function describeSettings(): readonly SettingRow[] {
 }
 
 const FROZEN_ROWS: readonly SettingRow[] = Object.freeze(ROWS.map((row) => Object.freeze(row)));
+
+function cell(text: string): string {
+  return text.replace(/\|/g, "\\|");
+}
+
+/** The README's settings table (Markdown), from `describeSettings()`. */
+export function renderSettingsTable(): string {
+  const lines = ["| setting | default | meaning |", "|---|---|---|"];
+  for (const row of FROZEN_ROWS) {
+    const value = row.default === null ? "—" : `\`${cell(row.default)}\``;
+    lines.push(`| \`${row.setting}\` | ${value} | ${cell(row.meaning)} |`);
+  }
+  return `${lines.join("\n")}\n`;
+}

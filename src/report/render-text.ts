@@ -1,9 +1,12 @@
 /**
  * @module render-text
  * Renders neutral blocks as plain text (CLI, console, logs). Bars: `■` up to the share, `·` on to
- * the interval's high end, `[` and `]` at the interval's ends, `|` where the line falls.
+ * the interval's high end, `[` and `]` at the interval's ends, `|` where the line falls. Control
+ * characters are escaped (`printable.ts`): labels and values, which may hold member ids, on one
+ * line each; the whole text apart from its line breaks.
  */
 import type { BarRow, Block } from "../domain/blocks.js";
+import { printable, printableLine } from "./printable.js";
 
 const BAR_WIDTH = 32;
 
@@ -38,8 +41,13 @@ export function renderText(blocks: readonly Block[]): string {
         out.push(block.text, "");
         break;
       case "figures": {
-        const width = Math.max(...block.rows.map((r) => r.label.length)) + 2;
-        for (const r of block.rows) {
+        const rows = block.rows.map((r) => ({
+          label: printableLine(r.label),
+          value: printableLine(r.value),
+          detail: r.detail ? printableLine(r.detail) : "",
+        }));
+        const width = Math.max(...rows.map((r) => r.label.length)) + 2;
+        for (const r of rows) {
           out.push(
             `${pad(r.label, width)}${r.value}${r.detail ? `  (${r.detail})` : ""}`.trimEnd(),
           );
@@ -53,9 +61,13 @@ export function renderText(blocks: readonly Block[]): string {
           1,
           Math.max(0.05, ...block.rows.map((r) => r.high), block.line ?? 0) * 1.05,
         );
-        const width = Math.max(...block.rows.map((r) => r.label.length)) + 2;
-        for (const r of block.rows)
-          out.push(`  ${pad(r.label, width)}${bar(r, scale, block.line)}  ${r.text}`);
+        const labels = block.rows.map((r) => printableLine(r.label));
+        const width = Math.max(...labels.map((label) => label.length)) + 2;
+        block.rows.forEach((r, i) => {
+          out.push(
+            `  ${pad(labels[i], width)}${bar(r, scale, block.line)}  ${printableLine(r.text)}`,
+          );
+        });
         if (block.line !== null)
           out.push(
             `  ${pad("", width)}${" ".repeat(0)}| marks the line (${Math.round(block.line * 100)}%)`,
@@ -71,5 +83,5 @@ export function renderText(blocks: readonly Block[]): string {
         break;
     }
   }
-  return `${out.join("\n").trimEnd()}\n`;
+  return `${printable(out.join("\n")).trimEnd()}\n`;
 }

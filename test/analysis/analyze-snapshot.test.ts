@@ -18,8 +18,8 @@ const exact: AnalysisSettings = {
 };
 
 describe("analysis report against closed forms", () => {
-  // Reversibility (Levin, Peres & Wilmer, Markov Chains and Mixing Times, 2nd ed. 2017, §1.6, from
-  // memory): for A = D⁻¹W with W symmetric, the stationary vector is s_i = Σ_j W_ij / Σ W.
+  // Reversibility (Levin, Peres & Wilmer, Markov Chains and Mixing Times, 2nd ed. 2017, §1.6,
+  // detailed balance; from memory): for A = D⁻¹W with W symmetric, the stationary vector is s_i = Σ_j W_ij / Σ W.
   // With background β the weights are W_ij = C_ij + β/(n−1) off the diagonal, still symmetric,
   // so s_i = (c_i + β) / (Σ C + nβ) (derived from the same fact).
   it("Zachary's karate club as mutual equal attention: shares are degree shares (β = 0)", () => {

@@ -3,7 +3,7 @@
  * small invented channels. Figures are checked against a closed form: for mutual, equal attention
  * (symmetric counts C) with background β, the stationary vector is s_i = (c_i + β) / (Σ C + nβ),
  * by reversibility of a random walk on a weighted undirected graph (Levin, Peres & Wilmer, Markov
- * Chains and Mixing Times, 2nd ed. 2017, §1.6; from memory).
+ * Chains and Mixing Times, 2nd ed. 2017, §1.6, detailed balance; from memory).
  */
 import { describe, expect, it } from "vitest";
 import { CAUTIONS_FULL } from "../../src/report/cautions.js";

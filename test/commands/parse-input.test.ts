@@ -14,11 +14,26 @@ describe("parseMember", () => {
     ["@U123ABC", "U123ABC"],
     ["U123ABC", "U123ABC"],
     ["29:1a2b-teams-id", "29:1a2b-teams-id"],
+    ["zoë", "zoë"],
+    ["00000000-0000-4000-8000-00000000000a", "00000000-0000-4000-8000-00000000000a"],
   ])("%s → %s", (word, id) => {
     expect(parseMember(word, "group <member> <label>")).toBe(id);
   });
 
-  it.each([undefined, "", "<@>", "@", "<@U1|x", "a<b"])("rejects %j with a coded error", (word) => {
+  it.each([
+    undefined,
+    "",
+    "<@>",
+    "@",
+    "<@U1|x",
+    "a<b",
+    "😀",
+    "@😀",
+    "ana😀",
+    "ana\u001b[2J",
+    "C\u0000Z",
+    "x".repeat(200),
+  ])("rejects %j with a coded error", (word) => {
     let caught: unknown = null;
     try {
       parseMember(word, "facilitator add <member>");
@@ -27,6 +42,15 @@ describe("parseMember", () => {
     }
     expect(isPlumblineError(caught)).toBe(true);
     if (isPlumblineError(caught)) expect(["ARG_MISSING", "ARG_BAD_VALUE"]).toContain(caught.code);
+  });
+
+  it("refuses an emoji for `facilitator add` with ARG_BAD_VALUE and a hint to mention", () => {
+    expect(() => parseMember("😀", "facilitator add <member>")).toThrow(
+      expect.objectContaining({
+        code: "ARG_BAD_VALUE",
+        hint: expect.stringContaining("/influence facilitator add <member>"),
+      }),
+    );
   });
 });
 

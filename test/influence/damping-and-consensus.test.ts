@@ -1,5 +1,6 @@
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
+import { effectiveVoicesOf } from "../../src/influence/analyze-influence.js";
 import {
   denseTransition,
   pointAttentionRows,
@@ -106,7 +107,9 @@ describe("DeGroot consensus", () => {
       for (let i = 0; i < s.length; i++) e += s[i] * sigma * sampleNormal(rng);
       errors[k] = e;
     }
-    const effective = 1 / s.reduce((acc, v) => acc + v * v, 0);
+    // The product's effective voices, checked against the closed form and the simulated variance.
+    const effective = effectiveVoicesOf(s);
+    expect(effective).toBeCloseTo(1 / s.reduce((acc, v) => acc + v * v, 0), 12);
     const expected = sigma ** 2 / effective;
     const { variance } = meanVariance(errors);
     // Standard error of a normal sample variance: σ_e²·√(2/(N−1)); allow 5 of them.

@@ -33,7 +33,11 @@ function expectClose(actual: readonly number[], expected: readonly number[], tol
 }
 
 describe("textbook chains", () => {
-  // Grinstead & Snell, Introduction to Probability, ch. 11, Example 11.1 (Land of Oz; R, N, S).
+  // Grinstead & Snell, Introduction to Probability (AMS, 2nd rev. ed. 1997), ch. 11: Example 11.1
+  // defines the Land of Oz chain (R, N, S); its fixed vector (2/5, 1/5, 2/5) is found later in the
+  // chapter, §11.3 "Ergodic Markov Chains", where Example 11.1 is continued (example number there
+  // from memory). The eigenvalues are derived here, not quoted: trace 1 = 1 + λ2 + λ3 gives
+  // λ3 = −λ2, and det P = −1/16 = λ2·λ3 gives λ2 = 1/4, λ3 = −1/4.
   const oz = [
     [1 / 2, 1 / 4, 1 / 4],
     [1 / 2, 0, 1 / 2],
@@ -41,9 +45,9 @@ describe("textbook chains", () => {
   ];
 
   it("Land of Oz: s = (2/5, 1/5, 2/5), eigenvalues 1, 1/4, −1/4", () => {
-    expectClose(shares(oz), [2 / 5, 1 / 5, 2 / 5], 1e-11); // Grinstead & Snell, Example 11.1
+    expectClose(shares(oz), [2 / 5, 1 / 5, 2 / 5], 1e-11); // Grinstead & Snell, §11.3
     const [dense, iterative] = bothEigen(oz);
-    expect(Math.abs(dense - 1 / 4)).toBeLessThan(1e-12); // Grinstead & Snell, Example 11.1
+    expect(Math.abs(dense - 1 / 4)).toBeLessThan(1e-12); // derived above (trace and determinant)
     expect(Math.abs(iterative - 1 / 4)).toBeLessThan(1e-12);
     // σ moves every eigenvalue λ to σ + (1−σ)λ (common practice): 1/2 + 1/2·(−1/4), 1/2 + 1/8.
     expect(Math.abs(denseSecondEigenvalue(rowsFromDense(oz), 0.5) - 5 / 8)).toBeLessThan(1e-12);
@@ -113,8 +117,8 @@ describe("textbook chains", () => {
   });
 
   it("reversible chains: symmetric weights give degree shares", () => {
-    // Levin, Peres & Wilmer, §1.5 (from memory): a walk on symmetric weights W is reversible
-    // with s_i = Σ_j W_ij / Σ W.
+    // Levin, Peres & Wilmer, 2nd ed. 2017, §1.6 (detailed balance implies stationarity; from
+    // memory): a walk on symmetric weights W satisfies detailed balance with s_i = Σ_j W_ij / Σ W.
     const rng = createSeededRng(20240611);
     for (let trial = 0; trial < 5; trial++) {
       const n = 5 + trial * 3;

@@ -65,9 +65,12 @@ describe("plumbline ingest / migrate / purge", () => {
     expect(m2.out.join("")).toMatch(/\(0 migrations applied\)\n$/);
     const log = writeLog("maint.jsonl", 300);
     expect(await main(["ingest", log], io(env).io)).toBe(0);
-    // The stream starts 2026-11-02; 200 days later every message is past 91 days.
+    // The stream starts 2026-11-02; 200 days later every message is past 91 days. Delivery keys
+    // carry the real time they were ingested, so the purge time is also at least a day after that
+    // (a fixed date alone would stop purging them once the calendar passes it).
+    const purgeAt = new Date(Math.max(Date.parse("2027-05-21T00:00:00Z"), Date.now() + 86_400_000));
     const p = io(env);
-    expect(await main(["purge", "--now", "2027-05-21T00:00:00Z", "--dedupe-days", "0"], p.io)).toBe(
+    expect(await main(["purge", "--now", purgeAt.toISOString(), "--dedupe-days", "0"], p.io)).toBe(
       0,
     );
     expect(p.out.join("")).toMatch(

@@ -2,7 +2,7 @@
  * The digest, note, how-to-read and help messages built from reports of invented channels.
  * Figures are checked against the closed form for mutual equal attention with background β:
  * s_i = (c_i + β) / (Σ C + nβ), by reversibility (Levin, Peres & Wilmer, Markov Chains and Mixing
- * Times, 2nd ed. 2017, §1.6; from memory).
+ * Times, 2nd ed. 2017, §1.6, detailed balance; from memory).
  */
 import { describe, expect, it } from "vitest";
 import { analyzeSnapshot } from "../../src/analysis/analyze-snapshot.js";

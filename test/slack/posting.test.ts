@@ -200,6 +200,29 @@ describe("/influence", () => {
     ]);
   });
 
+  it("records a command delivered to two replicas once, by its trigger_id, whatever their clocks", async () => {
+    nock(API_HOST)
+      .post("/api/users.info")
+      .reply(200, { ok: true, user: { id: "U0ANA", is_admin: false, profile: {} } });
+    const body = fixtureText("slash-command.txt");
+    const start = h.clock.now();
+    // The replica whose clock is 2 s ahead answers first; the other, behind, gets the same request.
+    for (const at of [start + 2_000, start]) {
+      const hook = nock("https://hooks.slack.com").post("/commands/T0PLUMB/1234/abcd").reply(200);
+      h.clock.set(at);
+      const reply = await post(
+        h.port,
+        body,
+        signedHeaders(body, at, "application/x-www-form-urlencoded"),
+      );
+      expect(reply.status).toBe(200);
+      await waitFor(() => hook.isDone());
+    }
+    expect((await h.store.loadSnapshot(CHANNEL)).consent).toEqual([
+      expect.objectContaining({ member: "U0ANA", level: "named", at: start + 2_000 }),
+    ]);
+  });
+
   it("answers `check post` in the channel for a workspace admin", async () => {
     const answers: Record<string, unknown>[] = [];
     const hook = nock("https://hooks.slack.com")

@@ -50,8 +50,8 @@ describe("SendQueue", () => {
     expect(sleeps).toEqual([]);
   });
 
-  it("retries 429, 412, 502 and 504 with growing jittered delays, honouring Retry-After", async () => {
-    for (const status of [429, 412, 502, 504]) {
+  it("retries 429 and 412 with growing jittered delays, honouring Retry-After", async () => {
+    for (const status of [429, 412]) {
       const clock = new ManualClock(0);
       const sleeps: number[] = [];
       let calls = 0;
@@ -76,9 +76,35 @@ describe("SendQueue", () => {
     expect(sleeps).toEqual([7000]);
   });
 
+  // A 502/504 may have been delivered: resending could post a digest twice (the Slack queue's rule).
+  it("never resends after a 502 or 504, and makes the conversation's next send wait", async () => {
+    for (const status of [502, 504]) {
+      const clock = new ManualClock(0);
+      const sleeps: number[] = [];
+      const q = queue(clock, sleeps);
+      let calls = 0;
+      const error = refused(status);
+      await expect(
+        q.send("c", async () => {
+          calls += 1;
+          throw error;
+        }),
+      ).rejects.toBe(error);
+      expect(calls).toBe(1);
+      expect(sleeps).toEqual([]);
+      await q.send("c", async () => "next");
+      // random 0.5: half of the 1 s ceiling fixed plus a quarter.
+      expect(sleeps).toEqual([750]);
+      await q.send("other", async () => "elsewhere");
+      expect(sleeps).toEqual([750]);
+    }
+  });
+
   it("never retries an unknown outcome or a client error, and gives up after 5 attempts", async () => {
     for (const error of [
       refused(500),
+      refused(502),
+      refused(504),
       refused(400),
       Object.assign(new Error("reset"), { code: "ECONNRESET" }),
     ]) {

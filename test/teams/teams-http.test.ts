@@ -193,6 +193,39 @@ describe("Teams adapter over HTTP (authentication off, real CloudAdapter)", () =
     expect((await h.store.listChannels()).map((c) => c.channel)).toEqual([CHANNEL]);
   });
 
+  it("records a command activity delivered to two replicas once, by its activity id", async () => {
+    expect((await h.post(fixture("conversation-update-add.json"))).status).toBe(200);
+    const at = Date.parse("2026-11-01T09:00:00Z");
+    // The replica 2 s ahead takes it first; the one behind sees no consent yet at its own time.
+    for (const now of [at + 2_000, at]) {
+      h.clock.set(now);
+      expect((await h.post(commandFrom("dan", "join", "0999"))).status).toBe(200);
+    }
+    const dan = (await snapshot()).consent.filter(
+      (c) => c.member.startsWith("~") || c.member === "aad-dan",
+    );
+    expect(dan).toEqual([expect.objectContaining({ level: "counted", at: at + 2_000 })]);
+  });
+
+  it("refuses activities whose ids hold NUL, escape sequences or spaces with 400, storing nothing", async () => {
+    const base = fixture("channel-message.json");
+    const conversation = base.conversation as Record<string, unknown>;
+    const from = base.from as Record<string, unknown>;
+    const bad = [
+      { conversation: { ...conversation, id: "19:gen\u0000eral@thread.tacv2" } },
+      { conversation: { ...conversation, id: "19:general\u001b[2J@thread.tacv2" } },
+      { from: { ...from, aadObjectId: "aad ana" } },
+      { id: "17000\u009b2J" },
+    ];
+    for (const overrides of bad) {
+      const reply = await h.post({ ...base, ...overrides });
+      expect(reply.status).toBe(400);
+      expect(reply.text).toMatch(/^malformed /);
+    }
+    expect(await h.store.listChannels()).toEqual([]);
+    expect((await h.post(fixture("conversation-update-add.json"))).status).toBe(200);
+  });
+
   it("erases the channel when the bot is removed from the team", async () => {
     await installAndJoin();
     await h.post(fixture("channel-message.json"));
