@@ -136,8 +136,16 @@ export function createBot(options: BotOptions): Bot {
     scheduler,
     commandDeps,
     store,
-    onEvent(event, deliveryKey) {
-      return ingest(store, event, deliveryKey, { receivedAt: clock.now() });
+    async onEvent(event, deliveryKey) {
+      const result = await ingest(store, event, deliveryKey, { receivedAt: clock.now() });
+      // Recorded as rejected (no content kept): acknowledged so the platform stops retrying.
+      if (result.rejected !== undefined) {
+        logger.warn(
+          { channel: event.channel, code: result.rejected },
+          "event rejected by the store",
+        );
+      }
+      return result;
     },
     onCommand(context) {
       return handleCommand({ ...context, now: context.now ?? clock.now() }, commandDeps);

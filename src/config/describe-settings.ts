@@ -77,7 +77,7 @@ const ROWS: readonly SettingRow[] = [
     setting: "PLUMBLINE_REPORT_SECRET",
     default: null,
     meaning:
-      "Signs the 24-hour report-page links (at least 16 characters; same on every replica). Unset: a random secret per process",
+      "Signs the 24-hour report-page links (at least 16 characters; same on every replica). Unset: a random secret kept in the store, shared by its replicas",
   },
   {
     setting: "PLUMBLINE_PUBLIC_URL",
