@@ -233,8 +233,11 @@ function mapList(data: AttentionMapData): string {
   const items = data.members.map((m, k) => {
     const from = data.edges
       .filter((e) => e.to === k)
-      .map((e) => `${data.members[e.from].label} ${percent(e.weight)}`);
-    return `<li><strong>${html(m.label)}</strong> ${html(percent(m.share))}${m.aboveLine ? " (at or above the line)" : ""}${from.length > 0 ? `<br><span class="detail">most attention from: ${html(from.join(", "))}</span>` : ""}</li>`;
+      .map(
+        (e) =>
+          `<span class="nowrap">${html(`${data.members[e.from].label} ${percent(e.weight)}`)}</span>`,
+      );
+    return `<li><strong>${html(m.label)}</strong> ${html(percent(m.share))}${m.aboveLine ? " (at or above the line)" : ""}${from.length > 0 ? `<br><span class="detail">most attention from: ${from.join(", ")}</span>` : ""}</li>`;
   });
   return `<div class="map-list"><h3>Who listens to whom</h3><p class="detail">Members by influence share; after each, the members who give them at least ${percent(0.15)} of their replies and mentions, with that part.</p><ol>${items.join("")}</ol>${data.notShown > 0 ? `<p class="detail">${data.notShown} members with smaller shares not shown.</p>` : ""}</div>`;
 }

@@ -37,7 +37,7 @@ details.chart-table summary { cursor: pointer; color: var(--accent); font-size: 
 details.chart-table table { border-collapse: collapse; margin-top: 6px; font-size: 0.9rem; }
 details.chart-table th, details.chart-table td { text-align: left; padding: 3px 10px 3px 0; border-bottom: 1px solid var(--rule); }
 .map-list { display: none; }
-.map-list ol { padding-left: 1.6em; margin: 6px 0; }
+.map-list ol { padding-left: 2.4em; margin: 6px 0; }
 .map-list li { margin-bottom: 6px; }
 @media (max-width: 520px) {
   figure.wide { display: none; }

@@ -241,12 +241,22 @@ export function shareBarsChart(
     ...(options.axisMax === undefined ? {} : { axisMax: options.axisMax }),
   });
   const more = report.influence.length - shown.length;
+  const moreNote =
+    more > 0
+      ? text({
+          x: layout.plotX,
+          y: layout.height + 8,
+          content: `${more} more member${more === 1 ? "" : "s"} with smaller shares not shown`,
+          size: MIN_FONT,
+          fill: CHART_COLOURS.muted,
+        })
+      : "";
   return svgFrame({
     kind: options.kind ?? "shares",
     width: layout.width,
-    height: layout.height,
+    height: layout.height + (more > 0 ? 18 : 0),
     title,
     description: `Influence share of each member, largest first, with the ${interval}% interval as a whisker${line === null ? "" : ` and the line at ${percent(line)} as a dashed line`}${more > 0 ? `; ${more} more members not shown` : ""}.`,
-    body: heading.markup + key.markup + shareBarsBody(layout, line),
+    body: heading.markup + key.markup + shareBarsBody(layout, line) + moreNote,
   });
 }
