@@ -62,7 +62,9 @@ describe("chart and page colours", () => {
       CHART_COLOURS.attention,
       CHART_COLOURS.ink,
     ]) {
-      expect(Object.values(OKABE_ITO).includes(mark) || mark === CHART_COLOURS.ink).toBe(true);
+      expect(
+        (Object.values(OKABE_ITO) as string[]).includes(mark) || mark === CHART_COLOURS.ink,
+      ).toBe(true);
       expect(contrast(rgb(mark), WHITE), mark).toBeGreaterThanOrEqual(3);
     }
     for (const ink of [CHART_COLOURS.ink, CHART_COLOURS.muted]) {
