@@ -217,6 +217,12 @@ describe.skipIf(skip)("report page in Chromium", () => {
         path: join(ARTIFACTS, `${label}-${viewport.name}.png`),
         fullPage: true,
       });
+      // Whole sections too (docs/images/ copies the demo's, see docs/report-page.md).
+      for (const section of ["charts", "history"]) {
+        await page.locator(`#${section}`).screenshot({
+          path: join(ARTIFACTS, `${label}-${viewport.name}-section-${section}.png`),
+        });
+      }
       expect(await seriousAxeViolations(page), `axe at ${viewport.name}`).toEqual([]);
       expect(problems).toEqual([]);
       expect(requests.filter((r) => r !== url && !r.startsWith("data:"))).toEqual([]);

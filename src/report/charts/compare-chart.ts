@@ -65,7 +65,7 @@ export function compareChart(result: CompareReport): string {
   const shareMax = Math.min(1, Math.ceil((Math.max(0.1, ...highs) * 1.05) / 0.1) * 0.1);
   const panels = [
     {
-      title: `Effective voices (most possible: ${maxMembers}, all active members)`,
+      title: `Effective voices, out of ${maxMembers} active members`,
       pick: voices,
       axisMax: maxMembers,
       ticks: ticksUpTo(maxMembers, maxMembers <= 10 ? 2 : maxMembers <= 30 ? 5 : 10),
