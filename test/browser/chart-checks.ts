@@ -104,8 +104,10 @@ export interface AxeViolation {
 export async function seriousAxeViolations(page: Page): Promise<AxeViolation[]> {
   await page.evaluate(AXE_SOURCE);
   await page.evaluate(`document.querySelectorAll("details").forEach((d) => { d.open = true; })`);
-  const violations = (await page.evaluate(
-    `axe.run(document).then((r) => r.violations.map((v) => ({ id: v.id, impact: v.impact, help: v.help, targets: v.nodes.map((n) => String(n.target)) })))`,
-  )) as AxeViolation[];
-  return violations.filter((v) => v.impact === "serious" || v.impact === "critical");
+  const result = (await page.evaluate(
+    `axe.run(document).then((r) => ({ passes: r.passes.length, violations: r.violations.map((v) => ({ id: v.id, impact: v.impact, help: v.help, targets: v.nodes.map((n) => String(n.target)) })) }))`,
+  )) as { passes: number; violations: AxeViolation[] };
+  // A run that passed no rule at all did not really look at the page.
+  if (result.passes < 10) throw new Error(`axe-core passed only ${result.passes} rules`);
+  return result.violations.filter((v) => v.impact === "serious" || v.impact === "critical");
 }

@@ -57,7 +57,7 @@ export function compareChart(result: CompareReport): string {
   const axis = { plotX: 14, plotWidth: width - 28, axisMax: 1 };
   const periods = [
     { name: "A", range: result.a.range, report: result.a.report, colour: c.share },
-    { name: "B", range: result.b.range, report: result.b.report, colour: c.line },
+    { name: "B", range: result.b.range, report: result.b.report, colour: c.periodB },
   ] as const;
   const shapes = { A: "circle", B: "square" } as const;
   const maxMembers = Math.max(2, result.a.report.members, result.b.report.members);
@@ -87,7 +87,7 @@ export function compareChart(result: CompareReport): string {
   const key = legend(
     [
       { swatch: marker("circle", 11, 7, c.share, 6), label: "period A" },
-      { swatch: marker("square", 11, 7, c.line, 6), label: "period B" },
+      { swatch: marker("square", 11, 7, c.periodB, 6), label: "period B" },
       {
         swatch: `<line x1="0" y1="7" x2="22" y2="7" stroke="${c.ink}" stroke-width="5" stroke-opacity="0.6" stroke-linecap="round"/>`,
         label: "interval",
