@@ -168,10 +168,19 @@ export function shareBarsBody(layout: ShareBarsLayout, line: number | null): str
       }),
     );
   });
+  // Row texts go last, over the dashed line, each on a white outline.
+  const labels: string[] = [];
   for (const b of layout.bars) {
     const mid = b.barY + BAR_HEIGHT / 2;
     parts.push(
       `<g class="bar"><title>${escapeXml(`${b.fullLabel}: ${b.figures}`)}</title>`,
+      `<rect class="share" x="${num(b.barX)}" y="${num(b.barY)}" width="${num(b.barWidth)}" height="${BAR_HEIGHT}" fill="${c.share}"/>`,
+      `<line class="interval" x1="${num(b.lowX)}" y1="${num(mid)}" x2="${num(b.highX)}" y2="${num(mid)}" stroke="${c.ink}" stroke-width="2"/>`,
+      `<line x1="${num(b.lowX)}" y1="${num(mid - 6)}" x2="${num(b.lowX)}" y2="${num(mid + 6)}" stroke="${c.ink}" stroke-width="2"/>`,
+      `<line x1="${num(b.highX)}" y1="${num(mid - 6)}" x2="${num(b.highX)}" y2="${num(mid + 6)}" stroke="${c.ink}" stroke-width="2"/>`,
+      `</g>`,
+    );
+    labels.push(
       text({
         x: layout.plotX,
         y: b.y + 14,
@@ -179,6 +188,7 @@ export function shareBarsBody(layout: ShareBarsLayout, line: number | null): str
         size: LABEL_FONT,
         weight: "bold",
         fill: c.ink,
+        halo: true,
       }),
       text({
         x: layout.width - layout.plotX,
@@ -187,12 +197,8 @@ export function shareBarsBody(layout: ShareBarsLayout, line: number | null): str
         anchor: "end",
         size: MIN_FONT,
         fill: c.ink,
+        halo: true,
       }),
-      `<rect class="share" x="${num(b.barX)}" y="${num(b.barY)}" width="${num(b.barWidth)}" height="${BAR_HEIGHT}" fill="${c.share}"/>`,
-      `<line class="interval" x1="${num(b.lowX)}" y1="${num(mid)}" x2="${num(b.highX)}" y2="${num(mid)}" stroke="${c.ink}" stroke-width="2"/>`,
-      `<line x1="${num(b.lowX)}" y1="${num(mid - 6)}" x2="${num(b.lowX)}" y2="${num(mid + 6)}" stroke="${c.ink}" stroke-width="2"/>`,
-      `<line x1="${num(b.highX)}" y1="${num(mid - 6)}" x2="${num(b.highX)}" y2="${num(mid + 6)}" stroke="${c.ink}" stroke-width="2"/>`,
-      `</g>`,
     );
   }
   parts.push(
@@ -203,7 +209,7 @@ export function shareBarsBody(layout: ShareBarsLayout, line: number | null): str
       `<line class="threshold" x1="${num(layout.lineX)}" y1="${num(layout.top - 4)}" x2="${num(layout.lineX)}" y2="${num(layout.axisY)}" stroke="${c.line}" stroke-width="2" stroke-dasharray="6 4"><title>line ${percent(line)}</title></line>`,
     );
   }
-  return parts.join("");
+  return parts.join("") + labels.join("");
 }
 
 /** The bars of a report with figures, labelled by the naming rules; null without shares. */
