@@ -5,18 +5,19 @@
  * bot-messages) has put the bot message limit at 40 KB and now at 100 KB of UTF-16 payload, base64
  * images not counted; older guidance said about 28 KB for the whole message, so the card is kept
  * under 28 KB image included. resvg's anti-aliased RGBA PNG of a 15-member chart is about 45 KB even
- * at the chart's own 480 px, so the pixels are re-encoded as an indexed-colour PNG (the chart has
+ * at the chart's own 460 px, so the pixels are re-encoded as an indexed-colour PNG (the chart has
  * about a hundred distinct colours): about 8 KB for 15 members, the whole card about 15 KB.
  * Larger than `maxBytes`, or with more than 256 colours, the image is left out and the card says
  * the chart is missing.
  */
 
 import type { Logger } from "../../src/ports/logger.js";
+import { CHART_WIDTH } from "../../src/report/charts/svg.js";
 import { type ChartRenderer, svgToRgba } from "../chart-image.js";
 import { encodeIndexedPng } from "./png-encoder.js";
 
 /** Pixel width of the card image: the chart's own width, so text stays at its drawn size. */
-export const CARD_CHART_WIDTH = 480;
+export const CARD_CHART_WIDTH = CHART_WIDTH;
 /** Largest PNG put in a card; its base64 (4/3 of it) plus the card's text stays under 28 KB. */
 export const CARD_CHART_MAX_BYTES = 16_000;
 

@@ -3,7 +3,8 @@
  * The report as one self-contained HTML page (`plumbline report`, and `/reports/<token>` on the
  * bot): the figures of one `AnalysisReport`, its charts as inline SVG (shares, effective voices and
  * the largest share per week, the attention map, a compare's two periods), the how to read and the
- * cautions. Inline CSS and SVG only, and a Content-Security-Policy that forbids every fetch, so the
+ * cautions. Every chart has a visible title, a legend, and its text equivalent: the table of what it
+ * draws, beside it; on narrow screens the attention map becomes a ranked list. Inline CSS and SVG only, and a Content-Security-Policy that forbids every fetch, so the
  * page makes no network request and works offline. Members are labelled by the naming rules.
  */
 
@@ -11,20 +12,22 @@ import type { CompareReport } from "../analysis/compare-periods.js";
 import type { Block } from "../domain/blocks.js";
 import type { AttentionInput } from "../domain/counts.js";
 import type { AnalysisReport } from "../domain/report.js";
-import { attentionMapChart } from "./charts/attention-map.js";
-import { bandLineChart } from "./charts/band-line-chart.js";
-import { blocksHtml } from "./charts/blocks-html.js";
+import {
+  type AttentionMapData,
+  attentionMapChart,
+  attentionMapData,
+} from "./charts/attention-map.js";
+import { bandLineChart, ticksUpTo } from "./charts/band-line-chart.js";
+import { blocksHtml, keepDatesWhole } from "./charts/blocks-html.js";
 import { compareChart } from "./charts/compare-chart.js";
 import { PAGE_STYLE } from "./charts/page-style.js";
-import { CHART_COLOURS } from "./charts/palette.js";
-import { shareBarsChart } from "./charts/share-bars-chart.js";
+import { shareAxisMax, shareBarsChart } from "./charts/share-bars-chart.js";
 import { escapeXml } from "./charts/svg.js";
 import type { WeeklyPoint } from "./charts/weekly-series.js";
 import { compareBlocks } from "./compare-blocks.js";
 import { explainBlocks } from "./explain-blocks.js";
-import { decimal1, percent } from "./format.js";
-import type { NamingPolicy } from "./naming.js";
-import { samePageLabels } from "./naming.js";
+import { decimal1, percent, percentRange } from "./format.js";
+import { memberLabeller, type NamingPolicy, samePageLabels } from "./naming.js";
 import { summaryBlocks } from "./summary-blocks.js";
 
 /** The page's Content-Security-Policy: nothing may be fetched; only the inline style applies. */
@@ -47,35 +50,59 @@ export interface ReportPageInput {
   readonly audience?: string;
 }
 
-function figure(svg: string | null, caption: string): string {
+function html(text: string): string {
+  return keepDatesWhole(escapeXml(text));
+}
+
+/** The table a chart draws, folded under the chart: its text equivalent. */
+function chartTable(
+  caption: string,
+  headers: readonly string[],
+  rows: readonly (readonly string[])[],
+): string {
+  const head = headers.map((h) => `<th scope="col">${html(h)}</th>`).join("");
+  const body = rows
+    .map(
+      (r) =>
+        `<tr>${r.map((cell, k) => (k === 0 ? `<th scope="row">${html(cell)}</th>` : `<td>${html(cell)}</td>`)).join("")}</tr>`,
+    )
+    .join("");
+  return `<details class="chart-table"><summary>Table: ${html(caption)}</summary><table><thead><tr>${head}</tr></thead><tbody>${body}</tbody></table></details>`;
+}
+
+function figure(svg: string | null, caption: string, table = "", className = ""): string {
   return svg === null
     ? ""
-    : `<figure>${svg}<figcaption>${escapeXml(caption)}</figcaption></figure>`;
+    : `<figure${className ? ` class="${className}"` : ""}>${svg}<figcaption>${html(caption)}</figcaption>${table}</figure>`;
 }
 
 function weekLabel(until: number): string {
   return new Date(until).toISOString().slice(5, 10);
 }
 
+function weekDay(until: number): string {
+  return new Date(until).toISOString().slice(0, 10);
+}
+
 function historyCharts(history: readonly WeeklyPoint[], windowDays: number): string {
   if (history.length < 2 || history.every((p) => p.effectiveVoices === null)) {
     return "<p>Not enough weeks with figures yet for a trend.</p>";
   }
-  const voicesMax = Math.max(
+  // The voices axis ends at the most active members of any week: the most effective voices possible.
+  const voicesTop = Math.max(
     2,
     ...history.map((p) => Math.max(p.members, p.effectiveVoices?.high ?? 0)),
   );
+  const voicesStep = voicesTop <= 8 ? 2 : voicesTop <= 20 ? 5 : voicesTop <= 50 ? 10 : 20;
   const shareTop = Math.max(0.1, ...history.map((p) => Math.max(p.top?.high ?? 0, p.line ?? 0)));
   const line = history[history.length - 1].line;
-  const voicesStep = voicesMax <= 8 ? 2 : voicesMax <= 20 ? 5 : 10;
-  const voicesTop = Math.ceil(voicesMax / voicesStep) * voicesStep;
   const shareSteps = Math.min(10, Math.ceil((shareTop * 1.1) / 0.1));
   const shareTicks = shareSteps > 6 && shareSteps % 2 === 0 ? shareSteps / 2 : shareSteps;
   const voices = bandLineChart({
     kind: "effective-voices-trend",
     title: "Effective voices per week",
     description:
-      "Effective voices at the end of each week over the retained history, with the interval as a band; a dash marks weeks without figures.",
+      "Effective voices at the end of each week over the retained history, with the interval as a band and the active members (the most possible) dotted; a dash marks weeks without figures.",
     points: history.map((p) => ({
       label: weekLabel(p.until),
       value: p.effectiveVoices?.value ?? null,
@@ -83,8 +110,12 @@ function historyCharts(history: readonly WeeklyPoint[], windowDays: number): str
       high: p.effectiveVoices?.high ?? null,
     })),
     yMax: voicesTop,
-    yTicks: voicesTop / voicesStep,
+    yTickValues: ticksUpTo(voicesTop, voicesStep),
     format: decimal1,
+    tickFormat: (v) => String(Math.round(v)),
+    seriesLabel: "effective voices",
+    intervalLabel: "interval",
+    ceiling: { values: history.map((p) => p.members), label: "active members (most possible)" },
   });
   const top = bandLineChart({
     kind: "top-share-trend",
@@ -100,30 +131,127 @@ function historyCharts(history: readonly WeeklyPoint[], windowDays: number): str
     yMax: shareSteps / 10,
     yTicks: shareTicks,
     format: percent,
+    seriesLabel: "largest share",
+    intervalLabel: "interval",
     reference: line === null ? null : { value: line, label: `line ${percent(line)}` },
-    colour: CHART_COLOURS.line,
   });
-  return `<div class="charts">${figure(voices, `Effective voices: how many evenly heard voices the channel's shared view is worth, each week, counting the ${windowDays} days before it.`)}${figure(top, "The largest single share each week; the dashed line is the line.")}</div>`;
+  const voicesTable = chartTable(
+    "effective voices per week",
+    ["week ending", "effective voices", "interval", "active members"],
+    history.map((p) => [
+      weekDay(p.until),
+      p.effectiveVoices ? decimal1(p.effectiveVoices.value) : "no figure",
+      p.effectiveVoices
+        ? `${decimal1(p.effectiveVoices.low)}–${decimal1(p.effectiveVoices.high)}`
+        : "–",
+      String(p.members),
+    ]),
+  );
+  const topTable = chartTable(
+    "largest share per week",
+    ["week ending", "largest share", "interval", "line"],
+    history.map((p) => [
+      weekDay(p.until),
+      p.top ? percent(p.top.share) : "no figure",
+      p.top ? percentRange(p.top.low, p.top.high) : "–",
+      p.line === null ? "–" : percent(p.line),
+    ]),
+  );
+  return `<div class="charts">${figure(voices, `Effective voices: how many evenly heard voices the channel's shared view is worth, each week, counting the ${windowDays} days before it.`, voicesTable)}${figure(top, "The largest single share each week; the dashed line is the line.", topTable)}</div>`;
+}
+
+function sharesTable(
+  report: AnalysisReport,
+  policy: NamingPolicy,
+  caption: string,
+  maxRows = 20,
+): string {
+  const influence = report.influence ?? [];
+  const label = memberLabeller(influence, policy);
+  const interval = Math.round(report.settings.interval * 100);
+  return chartTable(
+    caption,
+    ["member", "influence share", `${interval}% interval`],
+    influence
+      .slice(0, maxRows)
+      .map((e) => [label(e.member), percent(e.share), percentRange(e.low, e.high)]),
+  );
 }
 
 function compareSection(result: CompareReport, policy: NamingPolicy): string {
   const blocks = compareBlocks(result).filter((b) => b.kind !== "heading" && b.kind !== "cautions");
+  // One axis for both periods' bars, so equal bar lengths mean equal shares.
+  const rowsOf = (report: AnalysisReport) => (report.influence ?? []).slice(0, 12);
+  const line = (report: AnalysisReport) => report.line?.threshold ?? null;
+  const axisMax = Math.max(
+    shareAxisMax(
+      rowsOf(result.a.report).map((e) => ({ label: "", ...e })),
+      line(result.a.report),
+    ),
+    shareAxisMax(
+      rowsOf(result.b.report).map((e) => ({ label: "", ...e })),
+      line(result.b.report),
+    ),
+  );
   const bars = (report: AnalysisReport, name: string, range: string) =>
     figure(
       shareBarsChart(report, policy, {
         kind: `shares-${name.toLowerCase()}`,
-        title: `Shares, period ${name} ${range}`,
+        title: `Shares, period ${name}`,
         maxBars: 12,
+        axisMax,
       }),
-      `Period ${name}: ${range}`,
-    ) || `<p>Period ${name} (${escapeXml(range)}) has no shares to show.</p>`;
+      `Period ${name}: ${range}; both periods on the same axis.`,
+      sharesTable(report, policy, `shares, period ${name} ${range}`, 12),
+    ) || `<p>Period ${html(name)} (${html(range)}) has no shares to show.</p>`;
+  const marks = (r: AnalysisReport) => [
+    r.effectiveVoices
+      ? `${decimal1(r.effectiveVoices.value)} (${decimal1(r.effectiveVoices.low)}–${decimal1(r.effectiveVoices.high)})`
+      : "no figures",
+    r.top ? `${percent(r.top.share)} (${percentRange(r.top.low, r.top.high)})` : "no figures",
+    String(r.members),
+  ];
+  const table = chartTable(
+    "the two periods",
+    ["period", "effective voices (interval)", "largest share (interval)", "active members"],
+    [
+      [`A ${result.a.range}`, ...marks(result.a.report)],
+      [`B ${result.b.range}`, ...marks(result.b.report)],
+    ],
+  );
   return [
-    `<section id="compare"><h2>${escapeXml(`Compare: A ${result.a.range} against B ${result.b.range}`)}</h2>`,
+    `<section id="compare"><h2>Compare: A ${html(result.a.range)} against B ${html(result.b.range)}</h2>`,
     blocksHtml(blocks),
-    `<div class="charts">${figure(compareChart(result), "Each period's figure with its interval on a common axis.")}</div>`,
+    `<div class="charts">${figure(compareChart(result), "Each period's figure with its interval on a common axis.", table)}</div>`,
     `<div class="charts">${bars(result.a.report, "A", result.a.range)}${bars(result.b.report, "B", result.b.range)}</div>`,
     "</section>",
   ].join("\n");
+}
+
+/** The map's narrow-screen form: members by share, each with who gives them most attention. */
+function mapList(data: AttentionMapData): string {
+  const items = data.members.map((m, k) => {
+    const from = data.edges
+      .filter((e) => e.to === k)
+      .map(
+        (e) =>
+          `<span class="nowrap">${html(`${data.members[e.from].label} ${percent(e.weight)}`)}</span>`,
+      );
+    return `<li><strong>${html(m.label)}</strong> ${html(percent(m.share))}${m.aboveLine ? " (at or above the line)" : ""}${from.length > 0 ? `<br><span class="detail">most attention from: ${from.join(", ")}</span>` : ""}</li>`;
+  });
+  return `<div class="map-list"><h3>Who listens to whom</h3><p class="detail">Members by influence share; after each, the members who give them at least ${percent(0.15)} of their replies and mentions, with that part.</p><ol>${items.join("")}</ol>${data.notShown > 0 ? `<p class="detail">${data.notShown} members with smaller shares not shown.</p>` : ""}</div>`;
+}
+
+function mapTable(data: AttentionMapData): string {
+  return chartTable(
+    "arrows of the attention map",
+    ["from", "to", "part of the sender's counted attention"],
+    data.edges.map((e) => [
+      data.members[e.from].label,
+      data.members[e.to].label,
+      percent(e.weight),
+    ]),
+  );
 }
 
 /** The whole page as an HTML string (UTF-8). */
@@ -133,13 +261,20 @@ export function reportPage(input: ReportPageInput): string {
   const shares = figure(
     shareBarsChart(report, policy),
     `Bars: influence share. Whiskers: the ${Math.round(report.settings.interval * 100)}% interval. Dashed: the line.`,
+    report.influence ? sharesTable(report, policy, "influence shares") : "",
   );
-  const map =
+  const mapData =
     input.attention && report.influence
+      ? attentionMapData({ report, input: input.attention, policy })
+      : null;
+  const map =
+    input.attention && mapData
       ? figure(
           attentionMapChart({ report, input: input.attention, policy }),
           "Node area: influence share. Arrow width: the part of a member's counted replies and mentions that goes to the other member.",
-        )
+          mapTable(mapData),
+          "wide map",
+        ) + mapList(mapData)
       : "";
   const title = `Influence balance · ${report.channel}`;
   const generated = new Date(input.generatedAt).toISOString().replace("T", " ").slice(0, 16);
@@ -155,7 +290,7 @@ export function reportPage(input: ReportPageInput): string {
     input.audience ? `<p class="audience">${escapeXml(input.audience)}</p>` : "",
     `<main><section id="figures"><h2>Figures</h2>${blocksHtml(summary)}</section>`,
     shares || map
-      ? `<section id="charts"><h2>Charts</h2><div class="charts">${shares}${map}</div></section>`
+      ? `<section id="charts"><h2>Charts</h2><div class="charts">${shares}</div>${map}</section>`
       : "",
     input.history
       ? `<section id="history"><h2>Week by week</h2>${historyCharts(input.history, report.window.days)}</section>`

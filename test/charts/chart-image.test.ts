@@ -18,7 +18,7 @@ describe("shares chart PNG", () => {
     const bytes = png ?? Buffer.alloc(0);
     expect([...bytes.subarray(0, 8)]).toEqual([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]);
     expect(bytes.subarray(12, 16).toString("ascii")).toBe("IHDR");
-    expect(bytes.readUInt32BE(16)).toBe(960);
+    expect(bytes.readUInt32BE(16)).toBe(920);
     expect(bytes.readUInt32BE(20)).toBeGreaterThan(300);
   });
 

@@ -83,4 +83,36 @@ describe("report page", () => {
     expect(evil).not.toContain("<b onload");
     expect(evil).toContain("&lt;b onload=&quot;x&quot;&gt;");
   });
+
+  it("gives every chart a visible title, an accessible name and its table", () => {
+    const svgs = html.match(/<svg[\s\S]*?<\/svg>/g) ?? [];
+    expect(svgs.length).toBe(7);
+    for (const svg of svgs) {
+      expect(svg).toMatch(
+        /^<svg [^>]*role="img"[^>]*aria-labelledby="chart-[\w-]+-title chart-[\w-]+-desc"/,
+      );
+      expect(svg).toContain('class="chart-title"');
+      expect(svg).toContain('class="legend"');
+    }
+    const figures = html.match(/<figure[\s\S]*?<\/figure>/g) ?? [];
+    expect(figures.length).toBe(7);
+    for (const f of figures)
+      expect(f).toMatch(/<details class="chart-table"><summary>Table: [\s\S]*?<\/summary><table>/);
+    // The map's narrow-screen list names every member the map shows, in share order.
+    const list = /<div class="map-list">[\s\S]*?<\/ol>/.exec(html)?.[0] ?? "";
+    const influence = analysis.report.influence ?? [];
+    expect(list.match(/<li>/g)?.length).toBe(influence.length);
+  });
+
+  it("draws both compared periods' bars on one axis and keeps dates whole", () => {
+    const last = (kind: string) => {
+      const svg =
+        new RegExp(`<svg [^>]*data-chart="${kind}"[\\s\\S]*?</svg>`).exec(html)?.[0] ?? "";
+      const ticks = [...svg.matchAll(/>(\d+)%<\/text>/g)].map((m) => Number(m[1]));
+      return Math.max(...ticks);
+    };
+    expect(last("shares-a")).toBeGreaterThanOrEqual(10);
+    expect(last("shares-a")).toBe(last("shares-b"));
+    expect(html).toMatch(/<h2>Compare: A <span class="nowrap">2026-10-06\.\.2026-11-02<\/span>/);
+  });
 });

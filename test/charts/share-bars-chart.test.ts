@@ -103,7 +103,7 @@ describe("share bars chart", () => {
 
   it("is responsive: a viewBox and max-width 100%", () => {
     const svg = shareBarsChart(report, { namesOn: false }) ?? "";
-    expect(svg).toMatch(/^<svg [^>]*viewBox="0 0 480 \d+"/);
+    expect(svg).toMatch(/^<svg [^>]*viewBox="0 0 460 \d+"/);
     expect(svg).toContain("max-width:100%");
   });
 });

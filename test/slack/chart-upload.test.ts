@@ -129,12 +129,12 @@ describe("the digest's chart on Slack", () => {
     expect(Number(asked[0].length)).toBeGreaterThan(1000);
     expect(uploaded).toHaveLength(1);
     // nock hands over the multipart body hex-encoded; the file part is the PNG, drawn at twice
-    // the chart's 480 px.
+    // the chart's 460 px.
     const bytes = Buffer.from(uploaded[0], "hex");
     const at0 = bytes.indexOf(Buffer.from(PNG_SIGNATURE_HEX, "hex"));
     expect(at0).toBeGreaterThan(0);
     expect(bytes.subarray(at0 + 12, at0 + 16).toString("ascii")).toBe("IHDR");
-    expect(bytes.readUInt32BE(at0 + 16)).toBe(960);
+    expect(bytes.readUInt32BE(at0 + 16)).toBe(920);
     expect(completed).toHaveLength(1);
     expect(completed[0].channel_id).toBe("C0GENERAL");
     expect(completed[0].thread_ts).toBe(DIGEST_TS);

@@ -1,7 +1,7 @@
 /**
  * The card-sized chart image: an indexed-colour PNG (W3C 2003, "Portable Network Graphics (PNG)
  * Specification (Second Edition)": signature §5.2, IHDR §11.2.2 with colour type 3, PLTE §11.2.3)
- * of the share bars at the chart's own 480 px. Decoded back by resvg (its PNG decoder is an
+ * of the share bars at the chart's own 460 px. Decoded back by resvg (its PNG decoder is an
  * independent implementation), it gives the very pixels it was made from. For a 15-member channel
  * it stays far below the ~28 KB Teams message size this project keeps to (Microsoft Learn, "Format
  * your bot messages", older editions; see adapters/teams/card-chart.ts).
@@ -51,7 +51,7 @@ describe("the card-sized chart image", () => {
     expect(message.chart?.alt).toMatch(/^Influence shares, largest first, with 90% intervals/);
   });
 
-  it("is an indexed PNG 480 px wide that decodes back to the rendered pixels", () => {
+  it("is an indexed PNG at the chart's own width that decodes back to the rendered pixels", () => {
     const logger = new MemoryLogger();
     const png = cardChartRenderer({ logger })(svg);
     expect(png).not.toBeNull();

@@ -3,7 +3,7 @@
  * the fixtures' serviceUrl: an Adaptive Card `Image` (adaptivecards.io Schema Explorer 1.5,
  * "Image": url, altText, size) right after the text bars, its `data:` URL holding a PNG (signature
  * and IHDR per W3C 2003, "Portable Network Graphics (PNG) Specification (Second Edition)", §5.2,
- * §11.2.2) 480 px wide; when the chart cannot be rendered, a line saying so instead, and the digest
+ * §11.2.2) at the chart's own width (460 px); when the chart cannot be rendered, a line saying so instead, and the digest
  * is posted all the same.
  */
 import nock from "nock";
@@ -83,7 +83,7 @@ async function digestCard(): Promise<Element[]> {
 }
 
 describe("the digest's chart in the Teams card", () => {
-  it("is an Image after the bars, a data: URL of a 480 px PNG with its alt text", async () => {
+  it("is an Image after the bars, a data: URL of a PNG at the chart's own 460 px with its alt text", async () => {
     await start();
     const elements = await digestCard();
     const images = elements.filter((e) => e.type === "Image");
@@ -98,7 +98,7 @@ describe("the digest's chart in the Teams card", () => {
     const png = Buffer.from((image.url ?? "").slice(prefix.length), "base64");
     expect([...png.subarray(0, 8)]).toEqual([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]);
     expect(png.subarray(12, 16).toString("ascii")).toBe("IHDR");
-    expect(png.readUInt32BE(16)).toBe(480);
+    expect(png.readUInt32BE(16)).toBe(460);
     expect(elements.some((e) => e.text === CHART_MISSING_TEXT)).toBe(false);
   });
 

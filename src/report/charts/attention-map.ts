@@ -6,14 +6,20 @@
  * the even background part every pair shares). Two directions of a pair bend to opposite sides so
  * both stay visible. Every node and every drawn arrow carries a text label. Circular layouts are
  * common practice for small directed networks; areas, not radii, scale with the value
- * (Cleveland & McGill 1984, "Graphical perception", JASA 79:531–554).
+ * (Cleveland & McGill 1984, "Graphical perception", JASA 79:531–554). A visible title and a legend
+ * explain the arrows, the node sizes and colours. Member labels are placed first, each radially
+ * outside its node or further out with a leader line; arrow labels follow, heaviest first, at the
+ * first free spot along their curve. A label with no free spot is left out of the drawing and kept
+ * in its mark's `<title>` and in the table beside the map (the greedy placer of label-placer.ts).
  */
 import type { AttentionInput } from "../../domain/counts.js";
 import type { AnalysisReport } from "../../domain/report.js";
 import { percent } from "../format.js";
 import { memberLabeller, type NamingPolicy } from "../naming.js";
+import { type LabelCandidate, placeLabels } from "./label-placer.js";
 import { CHART_COLOURS } from "./palette.js";
-import { escapeXml, num, svgFrame, text } from "./svg.js";
+import { chartTitle, escapeXml, legend, MIN_FONT, num, svgFrame, text } from "./svg.js";
+import { type Box, textBox } from "./text-metrics.js";
 
 export interface Point {
   readonly x: number;
@@ -138,6 +144,81 @@ export function arrowGeometry(args: {
   };
 }
 
+/** The point at t ∈ [0, 1] on an arrow's quadratic Bézier curve (start, control, base of head). */
+export function curvePoint(g: ReturnType<typeof arrowGeometry>, t: number): Point {
+  const u = 1 - t;
+  return {
+    x: u * u * g.start.x + 2 * u * t * g.control.x + t * t * g.base.x,
+    y: u * u * g.start.y + 2 * u * t * g.control.y + t * t * g.base.y,
+  };
+}
+
+/** What the map shows, for the SVG, its table and the narrow-screen list alike. */
+export interface AttentionMapData {
+  readonly members: readonly {
+    readonly label: string;
+    readonly share: number;
+    readonly aboveLine: boolean;
+  }[];
+  readonly edges: readonly AttentionEdge[];
+  /** Members with shares too small to be shown. */
+  readonly notShown: number;
+  readonly line: number | null;
+}
+
+/** Default number of members drawn on the map. */
+export const MAP_MAX_MEMBERS = 16;
+/** Default number of arrows drawn. */
+export const MAP_MAX_ARROWS = 20;
+/** Counted attention below this part of a row gets no arrow. */
+export const MAP_MIN_WEIGHT = 0.15;
+
+/** The members and arrows of a report's map, labelled by the naming rules; null without shares. */
+export function attentionMapData(args: {
+  report: AnalysisReport;
+  input: AttentionInput;
+  policy: NamingPolicy;
+  maxMembers?: number;
+}): AttentionMapData | null {
+  const { report } = args;
+  if (!report.influence || report.influence.length === 0) return null;
+  const label = memberLabeller(report.influence, args.policy);
+  const shown = report.influence.slice(0, args.maxMembers ?? MAP_MAX_MEMBERS);
+  const line = report.line?.threshold ?? null;
+  return {
+    members: shown.map((e) => ({
+      label: label(e.member),
+      share: e.share,
+      aboveLine: line !== null && e.share >= line,
+    })),
+    edges: attentionEdges({
+      input: args.input,
+      background: report.settings.background,
+      shown: shown.map((e) => e.member),
+      minWeight: MAP_MIN_WEIGHT,
+      maxEdges: MAP_MAX_ARROWS,
+    }),
+    notShown: report.influence.length - shown.length,
+    line,
+  };
+}
+
+interface NodeLabel {
+  readonly lines: readonly {
+    readonly x: number;
+    readonly y: number;
+    readonly content: string;
+    readonly bold: boolean;
+  }[];
+  readonly anchor: "start" | "middle" | "end";
+  readonly leader: {
+    readonly x1: number;
+    readonly y1: number;
+    readonly x2: number;
+    readonly y2: number;
+  } | null;
+}
+
 /** The attention map of a report; null without shares. Shows at most `maxMembers` largest shares. */
 export function attentionMapChart(args: {
   report: AnalysisReport;
@@ -145,74 +226,183 @@ export function attentionMapChart(args: {
   policy: NamingPolicy;
   maxMembers?: number;
 }): string | null {
-  const { report } = args;
-  if (!report.influence || report.influence.length === 0) return null;
-  const label = memberLabeller(report.influence, args.policy);
-  const shown = report.influence.slice(0, args.maxMembers ?? 16);
-  const width = 620;
-  const height = 560;
-  const centre = { cx: width / 2, cy: height / 2, radius: 165 };
-  const at = circlePositions(shown.length, centre);
-  const maxShare = Math.max(...shown.map((e) => e.share));
-  const radii = shown.map((e) => nodeRadius(e.share, maxShare));
-  const edges = attentionEdges({
-    input: args.input,
-    background: report.settings.background,
-    shown: shown.map((e) => e.member),
-  });
-  const maxWeight = edges.length > 0 ? edges[0].weight : 0;
+  const data = attentionMapData(args);
+  if (data === null) return null;
   const c = CHART_COLOURS;
-  const arrows: string[] = [];
-  const arrowLabels: string[] = [];
-  for (const e of [...edges].reverse()) {
-    const g = arrowGeometry({
-      from: at[e.from],
-      to: at[e.to],
-      rFrom: radii[e.from],
-      rTo: radii[e.to],
-    });
-    const w = arrowWidth(e.weight, maxWeight);
-    arrows.push(
-      `<g class="arrow"><title>${escapeXml(label(shown[e.from].member))} → ${escapeXml(label(shown[e.to].member))}: ${percent(e.weight)} of counted attention</title>`,
-      `<path d="M${num(g.start.x)},${num(g.start.y)} Q${num(g.control.x)},${num(g.control.y)} ${num(g.base.x)},${num(g.base.y)}" fill="none" stroke="${c.attention}" stroke-opacity="0.8" stroke-width="${num(w)}" stroke-linecap="round"/>`,
-      `<polygon points="${g.headPoints.map((p) => `${num(p.x)},${num(p.y)}`).join(" ")}" fill="${c.attention}"/></g>`,
-    );
-    arrowLabels.push(
-      `<text class="arrow-label" x="${num(g.mid.x)}" y="${num(g.mid.y + 4)}" text-anchor="middle" font-size="11" fill="${c.ink}" stroke="#ffffff" stroke-width="3" paint-order="stroke">${percent(e.weight)}</text>`,
-    );
-  }
-  const nodes = shown.map((e, k) => {
+  const width = 600;
+  const heading = chartTitle("Attention map: who listens to whom");
+  const key = legend(
+    [
+      {
+        swatch: `<path d="M1,7 L14,7" stroke="${c.attention}" stroke-width="3"/><polygon points="22,7 13,2.5 13,11.5" fill="${c.attention}"/>`,
+        label: "A → B: part of A's replies and mentions that go to B",
+      },
+      {
+        swatch: `<circle cx="11" cy="7" r="6.5" fill="${c.share}"/>`,
+        label: "node area: influence share",
+      },
+      ...(data.line === null
+        ? []
+        : [
+            {
+              swatch: `<circle cx="11" cy="7" r="6.5" fill="${c.line}"/>`,
+              label: `at or above the line (${percent(data.line)})`,
+            },
+          ]),
+    ],
+    { x: 10, y: heading.bottom + 6, maxWidth: width - 20 },
+  );
+  const top = key.bottom + 8;
+  const ring = 175;
+  const centre = { cx: width / 2, cy: top + ring + 70, radius: ring };
+  const height = centre.cy + ring + 70;
+  const n = data.members.length;
+  const at = circlePositions(n, centre);
+  const maxShare = Math.max(...data.members.map((m) => m.share));
+  const radii = data.members.map((m) => nodeRadius(m.share, maxShare, { rMin: 6, rMax: 28 }));
+  const bounds: Box = { x: 2, y: top, width: width - 4, height: height - top - 2 };
+  const nodeBoxes: Box[] = at.map((p, k) => ({
+    x: p.x - radii[k] - 1,
+    y: p.y - radii[k] - 1,
+    width: 2 * radii[k] + 2,
+    height: 2 * radii[k] + 2,
+  }));
+  // Member labels: name over share, outside the node along its radius; further out with a leader.
+  const nodeRequests = data.members.map((m, k): LabelCandidate<NodeLabel>[] => {
     const p = at[k];
     const angle = Math.atan2(p.y - centre.cy, p.x - centre.cx);
-    const reach = radii[k] + 12;
-    const lx = p.x + Math.cos(angle) * reach;
-    const ly = p.y + Math.sin(angle) * reach;
     const cos = Math.cos(angle);
-    const anchor = cos > 0.3 ? "start" : cos < -0.3 ? "end" : "middle";
-    const dy = Math.sin(angle) > 0.3 ? 14 : Math.sin(angle) < -0.3 ? -18 : -2;
-    const fill = report.line && e.share >= report.line.threshold ? c.line : c.share;
-    return [
-      `<g class="node"><circle cx="${num(p.x)}" cy="${num(p.y)}" r="${num(radii[k])}" fill="${fill}" stroke="#ffffff" stroke-width="2"/>`,
-      text({
-        x: lx,
-        y: ly + dy,
-        content: label(e.member),
-        anchor,
-        size: 13,
-        weight: "bold",
-        fill: c.ink,
+    const sin = Math.sin(angle);
+    const anchor = cos > 0.35 ? "start" : cos < -0.35 ? "end" : "middle";
+    const share = percent(m.share);
+    const candidates: LabelCandidate<NodeLabel>[] = [];
+    for (const extra of [6, 22, 40]) {
+      for (const shift of [0, -14, 14]) {
+        const reach = radii[k] + extra;
+        const ex = p.x + cos * reach;
+        const ey = p.y + sin * reach;
+        // Two lines (13 px): the pair is 31 px tall; put it beside, above or below the point.
+        const blockTop = sin > 0.35 ? ey : sin < -0.35 ? ey - 31 : ey - 15.5;
+        const x = anchor === "middle" ? ex + shift : ex;
+        const y0 = blockTop + shift * (anchor === "middle" ? 0 : 1) + 12;
+        const lines = [
+          { x, y: y0, content: m.label, bold: true },
+          { x, y: y0 + 16, content: share, bold: false },
+        ];
+        const boxes = lines.map((l) =>
+          textBox({
+            x: l.x,
+            y: l.y,
+            content: l.content,
+            size: MIN_FONT,
+            anchor,
+            weight: l.bold ? "bold" : "normal",
+          }),
+        );
+        const leader =
+          extra > 6
+            ? {
+                x1: p.x + cos * (radii[k] + 2),
+                y1: p.y + sin * (radii[k] + 2),
+                x2: p.x + cos * (reach - 3),
+                y2: p.y + sin * (reach - 3),
+              }
+            : null;
+        candidates.push({ boxes, value: { lines, anchor, leader } });
+      }
+    }
+    return candidates;
+  });
+  const nodeLabels = placeLabels({ labels: nodeRequests, obstacles: nodeBoxes, bounds, gap: 2 });
+  const placedBoxes: Box[] = [...nodeBoxes];
+  nodeLabels.forEach((l) => {
+    if (!l) return;
+    for (const line of l.lines) {
+      placedBoxes.push(
+        textBox({
+          x: line.x,
+          y: line.y,
+          content: line.content,
+          size: MIN_FONT,
+          anchor: l.anchor,
+          weight: line.bold ? "bold" : "normal",
+        }),
+      );
+    }
+  });
+  // Arrows, and their labels heaviest first at the first free spot along the curve.
+  const maxWeight = data.edges.length > 0 ? data.edges[0].weight : 0;
+  const geometry = data.edges.map((e) =>
+    arrowGeometry({ from: at[e.from], to: at[e.to], rFrom: radii[e.from], rTo: radii[e.to] }),
+  );
+  const arrowLabels = placeLabels({
+    labels: data.edges.map((e, i) =>
+      [0.5, 0.4, 0.6, 0.3, 0.7, 0.2, 0.8].map((t) => {
+        const p = curvePoint(geometry[i], t);
+        const label = {
+          x: p.x,
+          y: p.y + 4.5,
+          content: percent(e.weight),
+          size: MIN_FONT,
+          anchor: "middle" as const,
+        };
+        return { boxes: [textBox(label)], value: label };
       }),
-      text({ x: lx, y: ly + dy + 15, content: percent(e.share), anchor, size: 12, fill: c.ink }),
+    ),
+    obstacles: placedBoxes,
+    bounds,
+    gap: 1,
+  });
+  const arrows: string[] = [];
+  const labels: string[] = [];
+  for (let i = data.edges.length - 1; i >= 0; i--) {
+    const e = data.edges[i];
+    const g = geometry[i];
+    const w = arrowWidth(e.weight, maxWeight);
+    arrows.push(
+      `<g class="arrow"><title>${escapeXml(data.members[e.from].label)} → ${escapeXml(data.members[e.to].label)}: ${percent(e.weight)} of counted attention</title>`,
+      `<path d="M${num(g.start.x)},${num(g.start.y)} Q${num(g.control.x)},${num(g.control.y)} ${num(g.base.x)},${num(g.base.y)}" fill="none" stroke="${c.attention}" stroke-width="${num(w)}" stroke-linecap="round"/>`,
+      `<polygon points="${g.headPoints.map((p) => `${num(p.x)},${num(p.y)}`).join(" ")}" fill="${c.attention}"/></g>`,
+    );
+    const label = arrowLabels[i];
+    if (label) {
+      labels.push(text({ ...label, fill: c.ink, className: "arrow-label", halo: true }));
+    }
+  }
+  const nodes = data.members.map((m, k) => {
+    const p = at[k];
+    const l = nodeLabels[k];
+    const fill = m.aboveLine ? c.line : c.share;
+    return [
+      `<g class="node"><title>${escapeXml(`${m.label}: ${percent(m.share)} influence share`)}</title>`,
+      `<circle cx="${num(p.x)}" cy="${num(p.y)}" r="${num(radii[k])}" fill="${fill}" stroke="#ffffff" stroke-width="2"/>`,
+      l?.leader
+        ? `<line class="leader" x1="${num(l.leader.x1)}" y1="${num(l.leader.y1)}" x2="${num(l.leader.x2)}" y2="${num(l.leader.y2)}" stroke="${c.muted}" stroke-width="1"/>`
+        : "",
+      ...(l
+        ? l.lines.map((line) =>
+            text({
+              x: line.x,
+              y: line.y,
+              content: line.content,
+              anchor: l.anchor,
+              size: MIN_FONT,
+              weight: line.bold ? "bold" : "normal",
+              fill: c.ink,
+            }),
+          )
+        : []),
       "</g>",
     ].join("");
   });
-  const more = report.influence.length - shown.length;
+  const dropped =
+    nodeLabels.filter((l) => l === null).length + arrowLabels.filter((l) => l === null).length;
   return svgFrame({
     kind: "attention-map",
     width,
     height,
     title: "Attention map",
-    description: `Members on a circle, largest influence share at the top; node area shows the share. An arrow from A to B shows the part of A's counted attention (replies and mentions) that goes to B; arrows under 15% are left out, at most 24 drawn.${more > 0 ? ` ${more} members with smaller shares not shown.` : ""}`,
-    body: arrows.join("") + arrowLabels.join("") + nodes.join(""),
+    description: `Members on a circle, largest influence share at the top; node area shows the share. An arrow from A to B shows the part of A's counted attention (replies and mentions) that goes to B; arrows under ${percent(MAP_MIN_WEIGHT)} are left out, at most ${MAP_MAX_ARROWS} drawn.${data.notShown > 0 ? ` ${data.notShown} members with smaller shares not shown.` : ""}${dropped > 0 ? " Labels without room are in the table." : ""}`,
+    body: heading.markup + key.markup + arrows.join("") + labels.join("") + nodes.join(""),
   });
 }

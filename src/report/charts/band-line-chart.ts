@@ -1,12 +1,28 @@
 /**
  * @module band-line-chart
- * A line chart with its interval drawn as a band: one point per week, the value labelled at every
- * point, the band from each point's low to high end, gaps where a week had no figure. Used for
- * effective voices and for the largest share over the retained history. The y axis starts at 0 so
- * heights compare honestly (common practice for quantities with a natural zero).
+ * A line chart with its interval drawn as a band: one point per week, the band from each point's
+ * low to high end (edged so it stays visible against white), gaps where a week had no figure, a
+ * visible title and a legend for every line style. Value labels go through the greedy label placer:
+ * above the band, below it, or beside the point, never over a tick label or another label; a label
+ * with no free place is left out and kept in the point's `<title>` and the table beside the chart.
+ * An optional ceiling series (for effective voices: the active members, the most possible) is drawn
+ * dotted and sets the axis top. The y axis starts at 0 so heights compare honestly (common practice
+ * for quantities with a natural zero).
  */
+import { type LabelCandidate, placeLabels } from "./label-placer.js";
 import { CHART_COLOURS } from "./palette.js";
-import { num, svgFrame, text } from "./svg.js";
+import {
+  CHART_WIDTH,
+  chartTitle,
+  escapeXml,
+  type LegendItem,
+  legend,
+  MIN_FONT,
+  num,
+  svgFrame,
+  text,
+} from "./svg.js";
+import { type Box, textBox } from "./text-metrics.js";
 
 export interface BandPoint {
   /** The x label, e.g. "11-29". */
@@ -46,12 +62,17 @@ export function bandLineLayout(
     reference?: number | null;
     width?: number;
     height?: number;
+    /** Number of even intervals between y ticks (default 4); ignored when `yTickValues` is set. */
     yTicks?: number;
+    yTickValues?: readonly number[];
+    /** Top of the plot (room for title and legend above). */
+    top?: number;
   },
 ): BandLineLayout {
-  const width = options.width ?? 480;
+  const width = options.width ?? CHART_WIDTH;
   const height = options.height ?? 250;
-  const plot = { x: 44, y: 28, width: width - 44 - 22, height: height - 28 - 42 };
+  const top = options.top ?? 28;
+  const plot = { x: 48, y: top, width: width - 48 - 24, height: height - top - 44 };
   const yOf = (v: number) =>
     plot.y + plot.height - (Math.max(0, Math.min(v, options.yMax)) / options.yMax) * plot.height;
   const step = points.length > 1 ? plot.width / (points.length - 1) : 0;
@@ -71,10 +92,10 @@ export function bandLineLayout(
   });
   if (current.length > 0) runs.push(current);
   const tickCount = options.yTicks ?? 4;
-  const yTicks = Array.from({ length: tickCount + 1 }, (_, k) => {
-    const value = (options.yMax * k) / tickCount;
-    return { y: yOf(value), value };
-  });
+  const values =
+    options.yTickValues ??
+    Array.from({ length: tickCount + 1 }, (_, k) => (options.yMax * k) / tickCount);
+  const yTicks = values.map((value) => ({ y: yOf(value), value }));
   const reference = options.reference ?? null;
   return {
     width,
@@ -87,6 +108,32 @@ export function bandLineLayout(
   };
 }
 
+/**
+ * Tick values for an axis from 0 to `top`: multiples of a round step, and `top` itself as the last
+ * tick (a multiple closer than half a step to `top` is left out so the two labels keep apart).
+ */
+export function ticksUpTo(top: number, step: number): number[] {
+  const ticks: number[] = [];
+  for (let v = 0; v < top - step / 2 + 1e-9; v += step) ticks.push(Math.round(v * 1e9) / 1e9);
+  ticks.push(top);
+  return ticks;
+}
+
+function polyline(
+  points: readonly { x: number; y: number }[],
+  attrs: string,
+  className: string,
+): string {
+  return `<polyline class="${className}" points="${points.map((p) => `${num(p.x)},${num(p.y)}`).join(" ")}" fill="none" ${attrs}/>`;
+}
+
+interface PointLabel {
+  readonly x: number;
+  readonly y: number;
+  readonly anchor: "start" | "middle" | "end";
+  readonly content: string;
+}
+
 /** The line chart with its band, as a framed SVG. */
 export function bandLineChart(args: {
   kind: string;
@@ -95,31 +142,74 @@ export function bandLineChart(args: {
   points: readonly BandPoint[];
   yMax: number;
   format: (value: number) => string;
+  /** Format of the y tick labels (default `format`). */
+  tickFormat?: (value: number) => string;
+  /** Dashed horizontal reference (the line); named in the legend. */
   reference?: { readonly value: number; readonly label: string } | null;
+  /** Dotted series drawn over the weeks, e.g. the active members; named in the legend. */
+  ceiling?: { readonly values: readonly (number | null)[]; readonly label: string } | null;
   colour?: string;
-  /** Number of intervals between y ticks (default 4). */
+  /** Number of even intervals between y ticks (default 4). */
   yTicks?: number;
+  /** Explicit tick values (overrides `yTicks`). */
+  yTickValues?: readonly number[];
+  /** Legend words for the line and the band (defaults "value", "interval"). */
+  seriesLabel?: string;
+  intervalLabel?: string;
+  width?: number;
 }): string {
   const c = CHART_COLOURS;
   const colour = args.colour ?? c.share;
+  const width = args.width ?? CHART_WIDTH;
+  const heading = chartTitle(args.title);
+  const items: LegendItem[] = [
+    {
+      swatch: `<line x1="0" y1="7" x2="22" y2="7" stroke="${colour}" stroke-width="2.5"/><circle cx="11" cy="7" r="3.5" fill="${colour}"/>`,
+      label: args.seriesLabel ?? "value",
+    },
+    {
+      swatch: `<rect x="0" y="2" width="22" height="10" fill="${c.interval}" fill-opacity="0.35" stroke="${colour}" stroke-width="1"/>`,
+      label: args.intervalLabel ?? "interval",
+    },
+  ];
+  if (args.ceiling) {
+    items.push({
+      swatch: `<line x1="0" y1="7" x2="22" y2="7" stroke="${c.ink}" stroke-width="2" stroke-dasharray="1 3" stroke-linecap="round"/>`,
+      label: args.ceiling.label,
+    });
+  }
+  if (args.reference) {
+    items.push({
+      swatch: `<line x1="0" y1="7" x2="22" y2="7" stroke="${c.line}" stroke-width="2" stroke-dasharray="6 4"/>`,
+      label: args.reference.label,
+    });
+  }
+  const key = legend(items, { x: 10, y: heading.bottom + 6, maxWidth: width - 20 });
+  const top = key.bottom + 14;
   const layout = bandLineLayout(args.points, {
     yMax: args.yMax,
     reference: args.reference?.value ?? null,
+    width,
+    height: top + 190,
+    top,
     ...(args.yTicks ? { yTicks: args.yTicks } : {}),
+    ...(args.yTickValues ? { yTickValues: args.yTickValues } : {}),
   });
   const { plot } = layout;
-  const parts: string[] = [];
+  const bottom = plot.y + plot.height;
+  const parts: string[] = [heading.markup, key.markup];
+  const obstacles: Box[] = [];
   for (const t of layout.yTicks) {
+    const label = {
+      x: plot.x - 6,
+      y: t.y + 4.5,
+      content: (args.tickFormat ?? args.format)(t.value),
+      size: MIN_FONT,
+    };
+    obstacles.push(textBox({ ...label, anchor: "end" }));
     parts.push(
       `<line x1="${num(plot.x)}" y1="${num(t.y)}" x2="${num(plot.x + plot.width)}" y2="${num(t.y)}" stroke="${c.grid}" stroke-width="1"/>`,
-      text({
-        x: plot.x - 6,
-        y: t.y + 4,
-        content: args.format(t.value),
-        anchor: "end",
-        size: 12,
-        fill: c.muted,
-      }),
+      text({ ...label, anchor: "end", fill: c.muted }),
     );
   }
   for (const run of layout.runs) {
@@ -127,84 +217,159 @@ export function bandLineChart(args: {
       (k) => layout.points[k].lowY !== null && layout.points[k].highY !== null,
     );
     if (withBand.length > 1) {
-      const upper = withBand.map(
-        (k) => `${num(layout.points[k].x)},${num(layout.points[k].highY ?? 0)}`,
-      );
-      const lower = withBand
-        .reverse()
-        .map((k) => `${num(layout.points[k].x)},${num(layout.points[k].lowY ?? 0)}`);
+      const upper = withBand.map((k) => ({
+        x: layout.points[k].x,
+        y: layout.points[k].highY ?? 0,
+      }));
+      const lower = withBand.map((k) => ({ x: layout.points[k].x, y: layout.points[k].lowY ?? 0 }));
       parts.push(
-        `<polygon class="band" points="${[...upper, ...lower].join(" ")}" fill="${c.interval}" fill-opacity="0.35" stroke="none"/>`,
+        `<polygon class="band" points="${[...upper, ...[...lower].reverse()].map((p) => `${num(p.x)},${num(p.y)}`).join(" ")}" fill="${c.interval}" fill-opacity="0.35" stroke="none"/>`,
+        polyline(upper, `stroke="${colour}" stroke-width="1"`, "band-edge"),
+        polyline(lower, `stroke="${colour}" stroke-width="1"`, "band-edge"),
       );
     }
     if (run.length > 1) {
-      const path = run
-        .map((k) => `${num(layout.points[k].x)},${num(layout.points[k].y ?? 0)}`)
-        .join(" ");
       parts.push(
-        `<polyline class="trend" points="${path}" fill="none" stroke="${colour}" stroke-width="2.5"/>`,
+        polyline(
+          run.map((k) => ({ x: layout.points[k].x, y: layout.points[k].y ?? 0 })),
+          `stroke="${colour}" stroke-width="2.5"`,
+          "trend",
+        ),
+      );
+    }
+  }
+  if (args.ceiling) {
+    const yOf = (v: number) => bottom - (Math.min(v, args.yMax) / args.yMax) * plot.height;
+    const marks = args.ceiling.values.flatMap((v, k) =>
+      v === null ? [] : [{ x: layout.points[k].x, y: yOf(v) }],
+    );
+    if (marks.length > 1) {
+      parts.push(
+        polyline(
+          marks,
+          `stroke="${c.ink}" stroke-width="2" stroke-dasharray="1 3" stroke-linecap="round"`,
+          "ceiling",
+        ),
       );
     }
   }
   if (layout.referenceY !== null && args.reference) {
     parts.push(
       `<line class="threshold" x1="${num(plot.x)}" y1="${num(layout.referenceY)}" x2="${num(plot.x + plot.width)}" y2="${num(layout.referenceY)}" stroke="${c.line}" stroke-width="2" stroke-dasharray="6 4"/>`,
-      text({
-        x: plot.x + plot.width,
-        y: layout.referenceY - 6,
-        content: args.reference.label,
-        anchor: "end",
-        size: 12,
-        weight: "bold",
-        fill: c.line,
-      }),
     );
   }
-  const labelEvery = args.points.length > 8 ? 2 : 1;
+  // Week labels under the axis: the last always, then every k-th from the first that fits.
+  const weekRequests = args.points.map((p, k) => {
+    const label = {
+      x: layout.points[k].x,
+      y: bottom + 19,
+      content: p.label,
+      size: MIN_FONT,
+      anchor: "middle" as const,
+    };
+    return [{ boxes: [textBox(label)], value: label }];
+  });
+  const order = [args.points.length - 1, ...args.points.keys()].filter(
+    (k, i, all) => all.indexOf(k) === i,
+  );
+  const xBounds = { x: 0, y: bottom, width, height: layout.height - bottom };
+  const placedWeeks = placeLabels({
+    labels: order.map((k) => weekRequests[k]),
+    bounds: xBounds,
+    gap: 8,
+  });
+  for (const label of placedWeeks) {
+    if (label) {
+      parts.push(text({ ...label, fill: c.muted }));
+      obstacles.push(textBox(label));
+    }
+  }
+  const xCaption = { x: 10, y: layout.height - 6, content: "week ending", size: MIN_FONT };
+  parts.push(text({ ...xCaption, fill: c.muted }));
+  // Points, their gap marks, and their value labels through the placer.
+  const requests: { k: number; candidates: LabelCandidate<PointLabel>[] }[] = [];
   args.points.forEach((p, k) => {
     const at = layout.points[k];
-    const last = k === args.points.length - 1;
-    if (k % labelEvery === 0 || last) {
-      parts.push(
-        text({
-          x: at.x,
-          y: plot.y + plot.height + 18,
-          content: p.label,
-          anchor: "middle",
-          size: 11,
-          fill: c.muted,
-        }),
-      );
-    }
     if (at.y === null || p.value === null) {
+      const dash = {
+        x: at.x,
+        y: bottom - 6,
+        content: "–",
+        size: MIN_FONT,
+        anchor: "middle" as const,
+      };
       parts.push(
-        text({
-          x: at.x,
-          y: plot.y + plot.height - 6,
-          content: "–",
-          anchor: "middle",
-          size: 12,
-          fill: c.muted,
-        }),
+        `<g class="gap"><title>${escapeXml(`${p.label}: no figure`)}</title>${text({ ...dash, fill: c.muted })}</g>`,
       );
+      obstacles.push(textBox(dash));
       return;
     }
+    obstacles.push({ x: at.x - 5, y: at.y - 5, width: 10, height: 10 });
+    const content = args.format(p.value);
+    const above = (at.highY ?? at.y) - 6;
+    const below = (at.lowY ?? at.y) + 6 + 0.93 * MIN_FONT;
+    const spots: PointLabel[] = [
+      { x: at.x, y: above, anchor: "middle", content },
+      { x: at.x, y: below, anchor: "middle", content },
+      { x: at.x, y: at.y - 8, anchor: "middle", content },
+      { x: at.x, y: at.y + 8 + 0.93 * MIN_FONT, anchor: "middle", content },
+      { x: at.x + 7, y: at.y - 7, anchor: "start", content },
+      { x: at.x - 7, y: at.y - 7, anchor: "end", content },
+    ];
+    requests.push({
+      k,
+      candidates: spots.map((s) => ({
+        boxes: [textBox({ ...s, size: MIN_FONT, weight: "bold" })],
+        value: s,
+      })),
+    });
+  });
+  // Priority: the latest week, then the highest and lowest, then the rest from the latest back.
+  const figureAt = (k: number) => args.points[k].value ?? 0;
+  const byValue = [...requests].sort((a, b) => figureAt(b.k) - figureAt(a.k));
+  const priority = [
+    requests[requests.length - 1],
+    byValue[0],
+    byValue[byValue.length - 1],
+    ...[...requests].reverse(),
+  ].filter((r, i, all) => r !== undefined && all.indexOf(r) === i);
+  const plotBounds = {
+    x: plot.x,
+    y: plot.y - 12,
+    width: plot.width + 20,
+    height: plot.height + 12,
+  };
+  const placed = placeLabels({
+    labels: priority.map((r) => r.candidates),
+    obstacles,
+    bounds: plotBounds,
+    gap: 2,
+  });
+  const labelOf = new Map(priority.map((r, i) => [r.k, placed[i]]));
+  args.points.forEach((p, k) => {
+    const at = layout.points[k];
+    if (at.y === null || p.value === null) return;
+    const range =
+      p.low !== null && p.high !== null ? ` (${args.format(p.low)}–${args.format(p.high)})` : "";
+    const label = labelOf.get(k);
     parts.push(
+      `<g class="point"><title>${escapeXml(`${p.label}: ${args.format(p.value)}${range}`)}</title>`,
       `<circle class="point" cx="${num(at.x)}" cy="${num(at.y)}" r="4" fill="${colour}" stroke="#ffffff" stroke-width="1.5"/>`,
-      text({
-        x: at.x,
-        y: (at.highY ?? at.y) - 6,
-        content: args.format(p.value),
-        anchor: "middle",
-        size: 11,
-        weight: "bold",
-        fill: c.ink,
-      }),
+      label
+        ? text({
+            ...label,
+            size: MIN_FONT,
+            weight: "bold",
+            fill: c.ink,
+            className: "value",
+            halo: true,
+          })
+        : "",
+      "</g>",
     );
   });
   parts.push(
-    `<line x1="${num(plot.x)}" y1="${num(plot.y + plot.height)}" x2="${num(plot.x + plot.width)}" y2="${num(plot.y + plot.height)}" stroke="${c.ink}" stroke-width="1"/>`,
-    text({ x: plot.x, y: layout.height - 6, content: "week ending", size: 11, fill: c.muted }),
+    `<line x1="${num(plot.x)}" y1="${num(bottom)}" x2="${num(plot.x + plot.width)}" y2="${num(bottom)}" stroke="${c.ink}" stroke-width="1"/>`,
   );
   return svgFrame({
     kind: args.kind,

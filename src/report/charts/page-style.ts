@@ -1,8 +1,11 @@
 /**
  * @module page-style
  * The report page's only stylesheet, inlined into the page: system fonts, a single readable
- * column that widens to a chart grid on large screens, charts that scale down to phone width
- * (`width: 100%` on a `viewBox` SVG), and a print layout that keeps each chart on one page.
+ * column that widens to a chart grid on large screens, charts drawn at their own width at most (so
+ * a lone chart never stretches and its text never grows) and scaled down to phone width through
+ * their `viewBox`; on narrow screens the attention map gives way to its ranked list. Text colours
+ * pass WCAG 2.2 AA contrast on their backgrounds (checked in test/charts/contrast.test.ts), and a
+ * print layout keeps each chart on one page.
  */
 
 export const PAGE_STYLE = `
@@ -24,10 +27,22 @@ table.figures { border-collapse: collapse; margin: 8px 0 16px; width: 100%; max-
 table.figures th, table.figures td { text-align: left; vertical-align: top; padding: 6px 8px; border-bottom: 1px solid var(--rule); }
 table.figures th { font-weight: 600; width: 30%; min-width: 7em; }
 .detail { color: var(--muted); }
-.charts { display: grid; grid-template-columns: repeat(auto-fit, minmax(min(100%, 440px), 1fr)); gap: 20px; align-items: start; }
-figure { margin: 0; }
-figure svg { display: block; width: 100%; height: auto; }
-figcaption { color: var(--muted); font-size: 0.9rem; margin-top: 4px; }
+.charts { display: grid; grid-template-columns: repeat(auto-fit, minmax(min(100%, 460px), 1fr)); gap: 24px; align-items: start; }
+figure { margin: 0 0 16px; }
+figure svg { display: block; max-width: 100%; height: auto; }
+figcaption { color: var(--muted); font-size: 0.9rem; margin-top: 4px; max-width: 460px; }
+.nowrap { white-space: nowrap; }
+details.chart-table { margin-top: 6px; max-width: 600px; }
+details.chart-table summary { cursor: pointer; color: var(--accent); font-size: 0.95rem; }
+details.chart-table table { border-collapse: collapse; margin-top: 6px; font-size: 0.9rem; }
+details.chart-table th, details.chart-table td { text-align: left; padding: 3px 10px 3px 0; border-bottom: 1px solid var(--rule); }
+.map-list { display: none; }
+.map-list ol { padding-left: 2.4em; margin: 6px 0; }
+.map-list li { margin-bottom: 6px; }
+@media (max-width: 520px) {
+  figure.wide { display: none; }
+  .map-list { display: block; }
+}
 @media (max-width: 480px) {
   body { padding: 10px; font-size: 15px; }
   h1 { font-size: 1.35rem; }

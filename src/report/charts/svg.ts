@@ -6,6 +6,7 @@
  * XML 1.0 rules for character data and attribute values (W3C 2008, "Extensible Markup Language
  * (XML) 1.0 (Fifth Edition)", §2.4), common practice for generated markup.
  */
+import { textWidth } from "./text-metrics.js";
 
 /** Escapes text for XML/HTML character data and double-quoted attribute values. */
 export function escapeXml(text: string): string {
@@ -33,6 +34,8 @@ export function text(args: {
   weight?: "normal" | "bold";
   fill?: string;
   className?: string;
+  /** A white outline behind the letters, so text stays legible over lines. */
+  halo?: boolean;
 }): string {
   const attrs = [
     `x="${num(args.x)}"`,
@@ -42,6 +45,9 @@ export function text(args: {
     args.weight === "bold" ? `font-weight="bold"` : "",
     args.fill ? `fill="${args.fill}"` : "",
     args.className ? `class="${args.className}"` : "",
+    args.halo
+      ? `stroke="#ffffff" stroke-width="3" stroke-linejoin="round" paint-order="stroke"`
+      : "",
   ].filter((a) => a !== "");
   return `<text ${attrs.join(" ")}>${escapeXml(args.content)}</text>`;
 }
@@ -74,4 +80,65 @@ export function svgFrame(args: {
     args.body,
     "</svg>",
   ].join("");
+}
+
+/** Natural width of the page's charts: at 390 px screens (370 px of content) text shrinks to 80%. */
+export const CHART_WIDTH = 460;
+/** Smallest font size drawn in a chart (px at natural size); 13 × 370/460 ≥ 10 px on a phone. */
+export const MIN_FONT = 13;
+/** Size of a chart's visible title. */
+export const TITLE_FONT = 15;
+
+/** A chart's visible title, top left, bold. Returns the markup and the y below it. */
+export function chartTitle(title: string, args: { x?: number; y?: number } = {}) {
+  const x = args.x ?? 10;
+  const y = args.y ?? 20;
+  return {
+    markup: text({
+      x,
+      y,
+      content: title,
+      size: TITLE_FONT,
+      weight: "bold",
+      className: "chart-title",
+    }),
+    bottom: Math.ceil(y + 0.25 * TITLE_FONT),
+  };
+}
+
+/** One legend entry: a swatch drawn in a 22 × 14 px cell whose top left is (0, 0), and its words. */
+export interface LegendItem {
+  readonly swatch: string;
+  readonly label: string;
+}
+
+/**
+ * A legend laid out left to right, wrapping to a new row when an entry would pass `maxWidth`.
+ * Returns the markup and the y below its last row.
+ */
+export function legend(
+  items: readonly LegendItem[],
+  args: { x: number; y: number; maxWidth: number },
+) {
+  const rowHeight = 20;
+  let cx = args.x;
+  let row = 0;
+  const parts: string[] = [];
+  for (const item of items) {
+    const width = 22 + 5 + textWidth(item.label, MIN_FONT) + 16;
+    if (cx > args.x && cx + width - 16 > args.x + args.maxWidth) {
+      cx = args.x;
+      row += 1;
+    }
+    const top = args.y + row * rowHeight;
+    parts.push(
+      `<g class="legend-item" transform="translate(${num(cx)},${num(top)})">${item.swatch}</g>`,
+      text({ x: cx + 27, y: top + 11.5, content: item.label, size: MIN_FONT, fill: "#1a1a1a" }),
+    );
+    cx += width;
+  }
+  return {
+    markup: `<g class="legend">${parts.join("")}</g>`,
+    bottom: args.y + (row + 1) * rowHeight,
+  };
 }
