@@ -24,6 +24,7 @@ import { compareBlocks } from "./compare-blocks.js";
 import { explainBlocks } from "./explain-blocks.js";
 import { decimal1, percent } from "./format.js";
 import type { NamingPolicy } from "./naming.js";
+import { disclose } from "./disclosure.js";
 import { summaryBlocks } from "./summary-blocks.js";
 
 /** The page's Content-Security-Policy: nothing may be fetched; only the inline style applies. */
@@ -129,8 +130,9 @@ function compareSection(result: CompareReport, policy: NamingPolicy): string {
 export function reportPage(input: ReportPageInput): string {
   const { report, policy } = input;
   const summary: Block[] = summaryBlocks(report, policy).filter((b) => b.kind !== "heading");
+  // The bars show individual shares: never where the figures above withhold them.
   const shares = figure(
-    shareBarsChart(report, policy),
+    disclose(report, policy).individual ? shareBarsChart(report, policy) : null,
     `Bars: influence share. Whiskers: the ${Math.round(report.settings.interval * 100)}% interval. Dashed: the line.`,
   );
   const map =

@@ -8,6 +8,7 @@ import type { Block, FigureRow } from "../domain/blocks.js";
 import type { AnalysisReport } from "../domain/report.js";
 import { CAUTIONS_LINE } from "./cautions.js";
 import { neededText, shareBars, structureText, windowText } from "./digest-blocks.js";
+import { disclose, hiddenGroupRows } from "./disclosure.js";
 import { decimal1, percent, percentRange, voicesOf } from "./format.js";
 import { memberLabeller, type NamingPolicy } from "./naming.js";
 import { plainReading } from "./reading.js";
@@ -42,7 +43,9 @@ export function summaryBlocks(
     blocks.push({ kind: "cautions", text: CAUTIONS_LINE });
     return blocks;
   }
-  const label = memberLabeller(report.influence, policy);
+  const shown = disclose(report, policy);
+  const named = memberLabeller(report.influence, policy);
+  const label = (member: string) => (shown.individual ? named(member) : "one member");
   const ev = report.effectiveVoices;
   const rows: FigureRow[] = [
     { label: "Active members", value: `${report.members}`, detail: `${report.signals} signals` },
@@ -54,7 +57,7 @@ export function summaryBlocks(
     {
       label: "Largest share",
       value: percent(report.top.share),
-      detail: `interval ${percentRange(report.top.low, report.top.high)}; ${label(report.top.member)}`,
+      detail: `interval ${percentRange(report.top.low, report.top.high)}${shown.individual ? `; ${label(report.top.member)}` : ""}`,
     },
   ];
   if (report.line) {
@@ -76,14 +79,16 @@ export function summaryBlocks(
   }
   blocks.push({ kind: "note", text: plainReading(report) });
   blocks.push({ kind: "figures", rows });
-  const bars = shareBars(report, policy, options.maxBars ?? 20);
+  if (shown.withheld) blocks.push({ kind: "note", text: shown.withheld });
+  const bars = shown.individual ? shareBars(report, policy, options.maxBars ?? 20) : null;
   if (bars) blocks.push(bars);
-  const groups = report.groups ?? report.clusters?.groups ?? null;
+  const groups = shown.groups ?? shown.clusters?.groups ?? null;
+  const hidden = hiddenGroupRows(shown);
   // One cluster covering everyone says nothing: clusters are shown only when there are several.
-  if (groups && (report.groups ? groups.length > 0 : groups.length > 1)) {
+  if (groups && (report.groups ? groups.length + hidden.length > 0 : groups.length > 1)) {
     const title = report.groups
       ? "Groups"
-      : `Clusters found in the replies (modularity ${report.clusters?.modularity.toFixed(2)}, unnamed)`;
+      : `Clusters found in the replies (modularity ${shown.clusters?.modularity.toFixed(2)}, unnamed)`;
     blocks.push({
       kind: "figures",
       rows: [
@@ -93,10 +98,11 @@ export function summaryBlocks(
           value: `${percent(g.share)} of influence`,
           detail: `${percent(g.headcountShare)} of members (${g.members}); interval ${percentRange(g.low, g.high)}`,
         })),
+        ...hidden,
       ],
     });
   }
-  if (report.contributors && report.contributors.length > 0) {
+  if (shown.individual && report.contributors && report.contributors.length > 0) {
     const top = report.contributors
       .slice(0, 5)
       .map((c) => `${label(c.member)} ${percent(c.share)}`);
