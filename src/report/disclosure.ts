@@ -227,9 +227,7 @@ function discloseClusters(
 ): AnalysisReport["clusters"] {
   const clusters = report.clusters;
   if (!clusters) return null;
-  const sizesHold = clusters.groups.every(
-    (g) => g.members >= k && report.members - g.members >= k,
-  );
+  const sizesHold = clusters.groups.every((g) => g.members >= k && report.members - g.members >= k);
   const named = (report.influence ?? []).some((e) => policy.namesOn && e.named);
   return sizesHold && !named ? clusters : null;
 }

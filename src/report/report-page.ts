@@ -21,10 +21,10 @@ import { shareBarsChart } from "./charts/share-bars-chart.js";
 import { escapeXml } from "./charts/svg.js";
 import type { WeeklyPoint } from "./charts/weekly-series.js";
 import { compareBlocks } from "./compare-blocks.js";
+import { disclose } from "./disclosure.js";
 import { explainBlocks } from "./explain-blocks.js";
 import { decimal1, percent } from "./format.js";
 import type { NamingPolicy } from "./naming.js";
-import { disclose } from "./disclosure.js";
 import { summaryBlocks } from "./summary-blocks.js";
 
 /** The page's Content-Security-Policy: nothing may be fetched; only the inline style applies. */
@@ -136,7 +136,7 @@ export function reportPage(input: ReportPageInput): string {
     `Bars: influence share. Whiskers: the ${Math.round(report.settings.interval * 100)}% interval. Dashed: the line.`,
   );
   const map =
-    input.attention && report.influence
+    input.attention && report.influence && disclose(report, policy).individual
       ? figure(
           attentionMapChart({ report, input: input.attention, policy }),
           "Node area: influence share. Arrow width: the part of a member's counted replies and mentions that goes to the other member.",

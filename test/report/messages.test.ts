@@ -109,10 +109,22 @@ describe("noteMessage", () => {
     const named = starReport("named");
     const withNames = noteMessage({
       report: named,
-      policy: { namesOn: true, displayName: (m) => (m === "hub" ? "Hana Hub" : m) },
+      policy: {
+        namesOn: true,
+        displayName: (m) => (m === "hub" ? "Hana Hub" : m),
+        // Six members, one named: every other reader leaves 4 unknown, enough only for k ≤ 4.
+        disclosure: { minMembers: 4 },
+      },
       audience: "facilitators",
     }).text;
     expect(withNames).toContain("Hana Hub's influence share");
+    const withheld = noteMessage({
+      report: named,
+      policy: { namesOn: true, displayName: (m) => (m === "hub" ? "Hana Hub" : m) },
+      audience: "facilitators",
+    }).text;
+    expect(withheld).not.toContain("Hana Hub");
+    expect(withheld).toContain("One member's influence share");
     expect(withNames).toContain("What you might try");
     const counted = starReport("counted");
     const refused = noteMessage({
