@@ -123,10 +123,9 @@ export function createBot(options: BotOptions): Bot {
   }
 
   async function sendToFacilitators(channel: string, message: OutgoingMessage): Promise<void> {
-    const stored = await store.listFacilitators(channel);
-    const targets = new Set(
-      [...options.facilitators, ...stored].filter((id) => !id.startsWith(PSEUDONYM_PREFIX)),
-    );
+    // The role keeps its platform id, so facilitators who joined `counted` are reached too.
+    const stored = await store.facilitatorPlatformIds(channel);
+    const targets = new Set([...options.facilitators, ...stored]);
     for (const id of targets) await platform.postPrivately(channel, id, message);
   }
 
