@@ -75,6 +75,10 @@ const LIMITS = [
   "What to do with them: use them to notice patterns and to try different habits (who speaks first, who opens threads, asking for written views before deciding), then compare periods with /influence compare.",
 ];
 
+const PRIVACY = [
+  "What no message gives away: nobody can work out the share of a member who is not named to them to within 5 points either way. A group's share is shown only when the group and the rest of the channel each have at least as many active members as the channel's minimum (the minmembers setting, never below 3); otherwise it reads \"hidden: fewer than k members\". When almost everyone is named, so that the named shares would give the others' away by subtraction, individual shares are withheld and only the channel figures are shown. A group whose members changed during the window stays hidden until the window has moved on, so two answers cannot be subtracted.",
+];
+
 /** The how to read as neutral blocks. */
 export function explainBlocks(): Block[] {
   const notes = (texts: readonly string[]): Block[] =>
@@ -88,6 +92,7 @@ export function explainBlocks(): Block[] {
     ...notes(FIGURES.map(([label, value]) => `${label}: ${value}`)),
     ...notes(WHY),
     ...notes(LIMITS),
+    ...notes(PRIVACY),
     { kind: "heading", text: "Cautions" },
     ...notes(CAUTIONS_FULL),
   ];

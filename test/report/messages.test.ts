@@ -179,6 +179,26 @@ describe("how to read, consent notice and help", () => {
     expect(text).toContain("HR decision");
   });
 
+  it("the consent notice says what counted protects against and what it cannot, before joining", () => {
+    const blocks = consentNoticeBlocks();
+    const text = renderText(blocks);
+    const protects = text.indexOf("What `counted` protects you from");
+    const cannot = text.indexOf("What it cannot protect you from");
+    expect(protects).toBeGreaterThan(0);
+    expect(cannot).toBeGreaterThan(protects);
+    expect(text).toContain("within 5 points");
+    expect(text).toContain("very small channel");
+    // Plain words: none of the trade's terms reach the notice.
+    expect(text).not.toMatch(/disclosure|suppression|stationary|DeGroot|k-anonym/i);
+  });
+
+  it("the how to read states the disclosure rule with k from minmembers", () => {
+    const { text } = explainMessage();
+    expect(text).toContain("within 5 points");
+    expect(text).toContain("minmembers setting, never below 3");
+    expect(text).toContain("hidden: fewer than k members");
+  });
+
   it("help echoes the unknown input, shortened", () => {
     const long = "x".repeat(100);
     const text = helpMessage({ unknown: long }).text;
