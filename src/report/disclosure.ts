@@ -246,7 +246,7 @@ export function disclose(report: AnalysisReport, policy: NamingPolicy): Disclose
     individual,
     withheld: individual
       ? null
-      : `Individual shares are withheld: fewer than ${k} members are not named, so the named shares would give theirs away by subtraction. The channel figures are shown instead.`,
+      : `Individual shares are withheld: fewer than ${k} members would be left unnamed, and the shares shown would give theirs away by subtraction. The channel figures are shown instead.`,
     groups: report.groups ? shown : null,
     hiddenGroups: hidden,
     clusters: discloseClusters(report, policy, k),

@@ -56,7 +56,9 @@ describe("naming in checks", () => {
     await r.run("UBOSS", "set names on");
     const { memberCheck, posted } = await texts(r);
     for (const text of [memberCheck, posted]) {
-      expect(text).toContain("Individual shares are withheld: fewer than 5 members are not named");
+      expect(text).toContain(
+        "Individual shares are withheld: fewer than 5 members would be left unnamed",
+      );
       expect(text).not.toContain(NAMES.UANA);
       expect(text).not.toMatch(/member \d/);
       expect(text).toContain("Effective voices");

@@ -124,7 +124,9 @@ describe("elimination", () => {
     ]) {
       const text = renderText(blocks);
       expect(blocks.some((b) => b.kind === "bars")).toBe(false);
-      expect(text).toContain("Individual shares are withheld: fewer than 3 members are not named");
+      expect(text).toContain(
+        "Individual shares are withheld: fewer than 3 members would be left unnamed",
+      );
       expect(text).toContain("Effective voices");
       expect(text).toMatch(/Largest share\s+35%/);
       expect(text).not.toContain("Name-");

@@ -208,8 +208,10 @@ export function baselineWidths(scenario: Scenario, k: number, top: number): Map<
   const own = scenario.members.find((m) => m.id === scenario.reader)?.share ?? 0;
   const others = scenario.members.filter((m) => m.id !== scenario.reader).length;
   const sum = 1 - own;
+  // The largest share as the message writes it: a whole percent.
+  const shown = Math.round(top * 100) / 100;
   const continuous =
-    Math.min(sum, top + ROUNDING) - Math.max(0, sum - (others - 1) * (top + ROUNDING));
+    Math.min(sum, shown + ROUNDING) - Math.max(0, sum - (others - 1) * (shown + ROUNDING));
   const values = unknown.map((m) => m.share);
   const anonymous =
     unknown.length >= k ? Math.max(...values) - Math.min(...values) : Number.POSITIVE_INFINITY;
