@@ -108,13 +108,16 @@ function historyCharts(history: readonly WeeklyPoint[]): string {
 
 function compareSection(result: CompareReport, policy: NamingPolicy): string {
   const blocks = compareBlocks(result).filter((b) => b.kind !== "heading" && b.kind !== "cautions");
+  // Each period's bars follow that period's disclosure rules (a join can leave one unnamed).
   const bars = (report: AnalysisReport, name: string, range: string) =>
     figure(
-      shareBarsChart(report, policy, {
-        kind: `shares-${name.toLowerCase()}`,
-        title: `Shares, period ${name} ${range}`,
-        maxBars: 12,
-      }),
+      disclose(report, policy).individual
+        ? shareBarsChart(report, policy, {
+            kind: `shares-${name.toLowerCase()}`,
+            title: `Shares, period ${name} ${range}`,
+            maxBars: 12,
+          })
+        : null,
       `Period ${name}: ${range}`,
     ) || `<p>Period ${name} (${escapeXml(range)}) has no shares to show.</p>`;
   return [
