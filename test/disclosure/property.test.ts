@@ -12,6 +12,7 @@ import type { Block } from "../../src/domain/blocks.js";
 import { digestBlocks } from "../../src/report/digest-blocks.js";
 import { disclosureK } from "../../src/report/disclosure.js";
 import { noteBlocks } from "../../src/report/note-blocks.js";
+import { renderText } from "../../src/report/render-text.js";
 import { summaryBlocks } from "../../src/report/summary-blocks.js";
 import { baselineWidths, inferredWidths } from "./reader-inference.js";
 import {
@@ -74,6 +75,8 @@ function leaks(args: {
 
 describe("no unnamed share is recoverable to ±5 points (property)", () => {
   it("holds for checks, digests and notes", () => {
+    let groupsShown = 0;
+    let barsShown = 0;
     fc.assert(
       fc.property(channel, (c) => {
         const members = membersFrom(c.weights, c.named, c.labels);
@@ -97,6 +100,8 @@ describe("no unnamed share is recoverable to ±5 points (property)", () => {
             : c.message === "digest"
               ? digestBlocks({ report, previous: null, policy })
               : noteBlocks({ report, policy, audience: "channel" });
+        if (blocks.some((b) => b.kind === "bars")) barsShown++;
+        if (/(north|south|east)\s+\d+%/.test(renderText(blocks))) groupsShown++;
         const found = leaks({
           members,
           blocks,
@@ -109,6 +114,9 @@ describe("no unnamed share is recoverable to ±5 points (property)", () => {
       }),
       { numRuns: 2000, seed: 20261202 },
     );
+    // Not vacuous: many messages show shares, and some show group shares beside them.
+    expect(barsShown).toBeGreaterThan(400);
+    expect(groupsShown).toBeGreaterThan(20);
   });
 
   it("the attacker finds leaks when the rules are bypassed (the property can fail)", () => {

@@ -121,8 +121,21 @@ export function inferredWidths(
   const r = readMessages(messages, scenario);
   const truth = new Map(scenario.members.map((m) => [m.id, m.share]));
   // The reader always knows their own share (they can ask for it privately).
-  if (scenario.reader !== null && truth.has(scenario.reader)) {
-    r.knownShares.set(scenario.reader, truth.get(scenario.reader) ?? 0);
+  if (
+    scenario.reader !== null &&
+    truth.has(scenario.reader) &&
+    !r.knownShares.has(scenario.reader)
+  ) {
+    const own = truth.get(scenario.reader) ?? 0;
+    r.knownShares.set(scenario.reader, own);
+    // In a channel post their own bar is anonymous: they recognise it by its value.
+    if (r.anonymous.length > 0) {
+      let closest = 0;
+      r.anonymous.forEach((v, i) => {
+        if (Math.abs(v - own) < Math.abs(r.anonymous[closest] - own)) closest = i;
+      });
+      r.anonymous.splice(closest, 1);
+    }
   }
   const unknown = scenario.members.map((m) => m.id).filter((id) => !r.knownShares.has(id));
   const widths = new Map<string, number>();
