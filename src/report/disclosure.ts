@@ -81,6 +81,11 @@ export function disclosureK(minMembers: number | undefined): number {
   return Math.max(MIN_K, Math.floor(minMembers ?? DEFAULT_K));
 }
 
+/** Complementary suppression: the group is large enough, but beside the other figures it is not. */
+export function singleOutText(k: number): string {
+  return `hidden: beside the other figures it would single out fewer than ${k} members`;
+}
+
 /** "hidden: fewer than 5 members". */
 export function hiddenText(k: number): string {
   return `hidden: fewer than ${k} members`;
@@ -213,7 +218,7 @@ function discloseGroups(args: {
     const victim =
       failing.group ?? [...shown].sort((a, b) => a.members - b.members || b.share - a.share)[0];
     if (victim === undefined) break;
-    hidden.push({ group: victim.group, reason: hiddenText(k) });
+    hidden.push({ group: victim.group, reason: singleOutText(k) });
     shown = shown.filter((g) => g !== victim);
   }
   return { shown, hidden };

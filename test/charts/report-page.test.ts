@@ -78,7 +78,11 @@ describe("report page", () => {
   it("escapes display names", () => {
     const evil = reportPage({
       ...analysis,
-      policy: { namesOn: true, displayName: (m) => `<b onload="x">${m}</b>` },
+      policy: {
+        namesOn: true,
+        displayName: (m) => `<b onload="x">${m}</b>`,
+        disclosure: { minMembers: 3 },
+      },
       generatedAt: 0,
     });
     expect(evil).not.toContain("<b onload");

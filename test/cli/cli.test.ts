@@ -31,7 +31,12 @@ const demoLogPath = writeLog(demoEvents(), "demo.jsonl");
 
 describe("plumbline CLI", () => {
   it("analyze prints the summary with bars, intervals and the cautions line", async () => {
-    const { code, out, err } = await run(["analyze", demoLogPath]);
+    // The demo names 10 of 13 members: with k = 5 the named shares would give the 3 others away,
+    // so the text withholds shares (DESIGN.md §7); with --min-members 3 they are shown.
+    const withheld = await run(["analyze", demoLogPath]);
+    expect(withheld.out).toContain("Individual shares are withheld");
+    expect(withheld.out).not.toContain("■");
+    const { code, out, err } = await run(["analyze", demoLogPath, "--min-members", "3"]);
     expect(err).toBe("");
     expect(code).toBe(0);
     expect(out).toContain("Effective voices");
