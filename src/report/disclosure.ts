@@ -91,13 +91,37 @@ export function hiddenText(k: number): string {
   return `hidden: fewer than ${k} members`;
 }
 
-function knownTo(entry: InfluenceEntry, policy: NamingPolicy, reader: string | null): boolean {
-  return (policy.namesOn && entry.named) || entry.member === reader;
+/** Named to every reader of this message (the reader's own share is added per reader). */
+function namedTo(entry: InfluenceEntry, policy: NamingPolicy): boolean {
+  return policy.namesOn && entry.named;
 }
 
-function spread(values: readonly number[]): number {
-  if (values.length === 0) return 0;
-  return Math.max(...values) - Math.min(...values);
+/** Shares of a set of members, sorted, so the spread without any one member costs O(1). */
+class Pool {
+  readonly sorted: number[];
+  readonly sum: number;
+  readonly ids: ReadonlySet<string>;
+
+  constructor(entries: readonly InfluenceEntry[]) {
+    this.sorted = entries.map((e) => e.share).sort((a, b) => a - b);
+    this.sum = this.sorted.reduce((acc, x) => acc + x, 0);
+    this.ids = new Set(entries.map((e) => e.member));
+  }
+
+  size(without: number | null): number {
+    return this.sorted.length - (without === null ? 0 : 1);
+  }
+
+  /** Largest minus smallest share, leaving out one member's share `without` (if any). */
+  spread(without: number | null): number {
+    const v = this.sorted;
+    const n = v.length;
+    if (n - (without === null ? 0 : 1) <= 1) return 0;
+    if (without === null) return v[n - 1] - v[0];
+    const low = without === v[0] ? v[1] : v[0];
+    const high = without === v[n - 1] ? v[n - 2] : v[n - 1];
+    return high - low;
+  }
 }
 
 interface Part {
@@ -112,53 +136,71 @@ function readersOf(report: AnalysisReport, policy: NamingPolicy): (string | null
   return [null, ...(report.influence ?? []).map((e) => e.member)];
 }
 
-/** Elimination (rule 1) for one reader: the members unknown to them are none or at least k. */
+/** The reader's share, when they are one of `pool` (they know it, so it leaves the pool). */
+function ownShare(
+  reader: string | null,
+  pool: Pool,
+  byId: ReadonlyMap<string, InfluenceEntry>,
+): number | null {
+  if (reader === null || !pool.ids.has(reader)) return null;
+  return byId.get(reader)?.share ?? null;
+}
+
+/** Elimination (rule 1) for every reader: the members unknown to them are none or at least k. */
 function eliminationHolds(
   influence: readonly InfluenceEntry[],
   policy: NamingPolicy,
-  reader: string | null,
+  readers: readonly (string | null)[],
   k: number,
 ): boolean {
-  const unknown = influence.filter((e) => !knownTo(e, policy, reader)).length;
-  return unknown === 0 || unknown >= k;
+  const unknown = new Set(influence.filter((e) => !namedTo(e, policy)).map((e) => e.member));
+  return readers.every((reader) => {
+    const count = unknown.size - (reader !== null && unknown.has(reader) ? 1 : 0);
+    return count === 0 || count >= k;
+  });
 }
 
-/** Whether a part passes rule 2 for one reader. */
+/** Whether a part passes rule 2 for every reader. */
 function partHolds(args: {
   part: Part;
   influence: readonly InfluenceEntry[];
+  byId: ReadonlyMap<string, InfluenceEntry>;
   policy: NamingPolicy;
-  reader: string | null;
+  readers: readonly (string | null)[];
   k: number;
   individual: boolean;
   top: number;
 }): boolean {
-  const { part, policy, reader, k, individual, top } = args;
-  // With individual shares withheld the reader knows only their own share (privately).
-  const isKnown = (e: InfluenceEntry) =>
-    individual ? knownTo(e, policy, reader) : e.member === reader;
-  const unknown = part.members.filter((e) => !isKnown(e));
-  if (unknown.length === 0) return true;
-  const everyone = args.influence.filter((e) => !isKnown(e)).map((e) => e.share);
-  if (individual) {
-    if (unknown.length < k) return false;
-    // Every anonymous share is within 10 points of every other: the list itself says as much.
-    if (spread(everyone) <= 2 * DISCLOSURE_BAND) return true;
-    return spread(unknown.map((e) => e.share)) > 2 * DISCLOSURE_BAND;
-  }
-  // Shares withheld: the part's unknown total S is shared by m members, each between 0 and the
-  // largest share; every value in [max(0, S − (m−1)·top), min(S, top)] fits the figures.
-  const m = unknown.length;
-  const sum = unknown.reduce((acc, e) => acc + e.share, 0);
-  const low = Math.max(0, sum - (m - 1) * top);
-  const high = Math.min(sum, top);
-  const width = Math.max(high - low, spread(unknown.map((e) => e.share)));
-  if (width > 2 * DISCLOSURE_BAND) return true;
-  // As narrow from the channel's figures alone (the total of everyone unknown): nothing added.
-  const all = args.influence.filter((e) => !isKnown(e));
-  const total = all.reduce((acc, e) => acc + e.share, 0);
-  const baseline = Math.min(total, top) - Math.max(0, total - (all.length - 1) * top);
-  return baseline <= 2 * DISCLOSURE_BAND;
+  const { part, policy, k, individual, top, byId } = args;
+  // With individual shares withheld a reader knows only their own share (privately).
+  const hidden = (e: InfluenceEntry) => !individual || !namedTo(e, policy);
+  const inPart = new Pool(part.members.filter(hidden));
+  const everyone = new Pool(args.influence.filter(hidden));
+  const band = 2 * DISCLOSURE_BAND;
+  return args.readers.every((reader) => {
+    const ownInPart = ownShare(reader, inPart, byId);
+    const ownInAll = ownShare(reader, everyone, byId);
+    const m = inPart.size(ownInPart);
+    if (m === 0) return true;
+    if (individual) {
+      if (m < k) return false;
+      // Every anonymous share is within 10 points of every other: the list itself says as much.
+      if (everyone.spread(ownInAll) <= band) return true;
+      return inPart.spread(ownInPart) > band;
+    }
+    // Shares withheld: the part's unknown total S is shared by m members, each between 0 and the
+    // largest share; every value in [max(0, S − (m−1)·top), min(S, top)] fits the figures.
+    const sum = inPart.sum - (ownInPart ?? 0);
+    const width = Math.max(
+      Math.min(sum, top) - Math.max(0, sum - (m - 1) * top),
+      inPart.spread(ownInPart),
+    );
+    if (width > band) return true;
+    // As narrow from the channel's figures alone (the total of everyone unknown): nothing added.
+    const total = everyone.sum - (ownInAll ?? 0);
+    const count = everyone.size(ownInAll);
+    return Math.min(total, top) - Math.max(0, total - (count - 1) * top) <= band;
+  });
 }
 
 function labelOf(input: DisclosureInput | undefined) {
@@ -194,6 +236,7 @@ function discloseGroups(args: {
   }
   const top = report.top?.share ?? 1;
   const readers = readersOf(report, policy);
+  const byId = new Map(influence.map((e) => [e.member, e]));
   for (;;) {
     const labels = new Set(shown.map((g) => g.group));
     const parts: Part[] = shown.map((g) => ({
@@ -208,10 +251,7 @@ function discloseGroups(args: {
       }),
     });
     const failing = parts.find(
-      (part) =>
-        !readers.every((reader) =>
-          partHolds({ part, influence, policy, reader, k, individual, top }),
-        ),
+      (part) => !partHolds({ part, influence, byId, policy, readers, k, individual, top }),
     );
     if (failing === undefined) break;
     // The remainder cannot be hidden: hide the smallest shown group so it joins the remainder.
@@ -242,7 +282,7 @@ export function disclose(report: AnalysisReport, policy: NamingPolicy): Disclose
   const k = disclosureK(policy.disclosure?.minMembers);
   const influence = report.influence ?? [];
   const readers = readersOf(report, policy);
-  const individual = readers.every((reader) => eliminationHolds(influence, policy, reader, k));
+  const individual = eliminationHolds(influence, policy, readers, k);
   const { shown, hidden } = report.groups
     ? discloseGroups({ report, policy, k, individual })
     : { shown: [], hidden: [] };
