@@ -28,7 +28,8 @@
  *    already had k members is hidden for that window, so two answers of one period never differ
  *    by a few members' shares.
  * For a message posted in the channel every active member may be the reader, so each rule is
- * checked for every possible reader.
+ * checked for every possible reader, and `named` members count as known even with names off:
+ * a facilitator reading the post has seen their shares in a private check.
  */
 
 import type { AnalysisReport, GroupFigure, InfluenceEntry } from "../domain/report.js";
@@ -91,9 +92,12 @@ export function hiddenText(k: number): string {
   return `hidden: fewer than ${k} members`;
 }
 
-/** Named to every reader of this message (the reader's own share is added per reader). */
-function namedTo(entry: InfluenceEntry, policy: NamingPolicy): boolean {
-  return policy.namesOn && entry.named;
+/** Someone who may read the message, and what they know besides the message. */
+interface Reader {
+  /** Their member id, or null for someone outside the active members. */
+  readonly id: string | null;
+  /** They know every `named` member's share (named to them, or a facilitator's private check). */
+  readonly knowsNamed: boolean;
 }
 
 /** Shares of a set of members, sorted, so the spread without any one member costs O(1). */
@@ -130,10 +134,19 @@ interface Part {
   readonly members: readonly InfluenceEntry[];
 }
 
-/** The readers to check: the one reading, or, for a channel post, nobody and every active member. */
-function readersOf(report: AnalysisReport, policy: NamingPolicy): (string | null)[] {
-  if (policy.reader !== undefined) return [policy.reader];
-  return [null, ...(report.influence ?? []).map((e) => e.member)];
+/**
+ * The readers to check. A private answer: the one reading, who knows the named shares when they
+ * are named to them and shown. A channel post: nobody and every active member, each both as a
+ * member (names as the channel shows them) and as a facilitator, who has seen every named share
+ * in a private check of the same period.
+ */
+function readersOf(report: AnalysisReport, policy: NamingPolicy, individual: boolean): Reader[] {
+  if (policy.reader !== undefined) {
+    return [{ id: policy.reader, knowsNamed: individual && policy.namesOn }];
+  }
+  const variants = policy.namesOn && individual ? [true] : [false, true];
+  const ids = [null, ...(report.influence ?? []).map((e) => e.member)];
+  return ids.flatMap((id) => variants.map((knowsNamed) => ({ id, knowsNamed })));
 }
 
 /** The reader's share, when they are one of `pool` (they know it, so it leaves the pool). */
@@ -149,13 +162,14 @@ function ownShare(
 /** Elimination (rule 1) for every reader: the members unknown to them are none or at least k. */
 function eliminationHolds(
   influence: readonly InfluenceEntry[],
-  policy: NamingPolicy,
-  readers: readonly (string | null)[],
+  readers: readonly Reader[],
   k: number,
 ): boolean {
-  const unknown = new Set(influence.filter((e) => !namedTo(e, policy)).map((e) => e.member));
+  const all = new Set(influence.map((e) => e.member));
+  const counted = new Set(influence.filter((e) => !e.named).map((e) => e.member));
   return readers.every((reader) => {
-    const count = unknown.size - (reader !== null && unknown.has(reader) ? 1 : 0);
+    const unknown = reader.knowsNamed ? counted : all;
+    const count = unknown.size - (reader.id !== null && unknown.has(reader.id) ? 1 : 0);
     return count === 0 || count >= k;
   });
 }
@@ -165,21 +179,25 @@ function partHolds(args: {
   part: Part;
   influence: readonly InfluenceEntry[];
   byId: ReadonlyMap<string, InfluenceEntry>;
-  policy: NamingPolicy;
-  readers: readonly (string | null)[];
+  readers: readonly Reader[];
   k: number;
   individual: boolean;
   top: number;
 }): boolean {
-  const { part, policy, k, individual, top, byId } = args;
-  // With individual shares withheld a reader knows only their own share (privately).
-  const hidden = (e: InfluenceEntry) => !individual || !namedTo(e, policy);
-  const inPart = new Pool(part.members.filter(hidden));
-  const everyone = new Pool(args.influence.filter(hidden));
+  const { part, k, individual, top, byId } = args;
+  const pools = (knowsNamed: boolean) => {
+    const hidden = (e: InfluenceEntry) => !(knowsNamed && e.named);
+    return {
+      inPart: new Pool(part.members.filter(hidden)),
+      everyone: new Pool(args.influence.filter(hidden)),
+    };
+  };
+  const byKnowledge = { false: pools(false), true: pools(true) };
   const band = 2 * DISCLOSURE_BAND;
   return args.readers.every((reader) => {
-    const ownInPart = ownShare(reader, inPart, byId);
-    const ownInAll = ownShare(reader, everyone, byId);
+    const { inPart, everyone } = byKnowledge[reader.knowsNamed ? "true" : "false"];
+    const ownInPart = ownShare(reader.id, inPart, byId);
+    const ownInAll = ownShare(reader.id, everyone, byId);
     const m = inPart.size(ownInPart);
     if (m === 0) return true;
     if (individual) {
@@ -235,7 +253,7 @@ function discloseGroups(args: {
     return { shown: [], hidden };
   }
   const top = report.top?.share ?? 1;
-  const readers = readersOf(report, policy);
+  const readers = readersOf(report, policy, individual);
   const byId = new Map(influence.map((e) => [e.member, e]));
   for (;;) {
     const labels = new Set(shown.map((g) => g.group));
@@ -251,7 +269,7 @@ function discloseGroups(args: {
       }),
     });
     const failing = parts.find(
-      (part) => !partHolds({ part, influence, byId, policy, readers, k, individual, top }),
+      (part) => !partHolds({ part, influence, byId, readers, k, individual, top }),
     );
     if (failing === undefined) break;
     // The remainder cannot be hidden: hide the smallest shown group so it joins the remainder.
@@ -273,7 +291,10 @@ function discloseClusters(
   const clusters = report.clusters;
   if (!clusters) return null;
   const sizesHold = clusters.groups.every((g) => g.members >= k && report.members - g.members >= k);
-  const named = (report.influence ?? []).some((e) => policy.namesOn && e.named);
+  // Named shares known to any reader (a facilitator reads every channel post) would subtract out.
+  const named = (report.influence ?? []).some(
+    (e) => e.named && (policy.namesOn || policy.reader === undefined),
+  );
   return sizesHold && !named ? clusters : null;
 }
 
@@ -281,8 +302,7 @@ function discloseClusters(
 export function disclose(report: AnalysisReport, policy: NamingPolicy): Disclosed {
   const k = disclosureK(policy.disclosure?.minMembers);
   const influence = report.influence ?? [];
-  const readers = readersOf(report, policy);
-  const individual = eliminationHolds(influence, policy, readers, k);
+  const individual = eliminationHolds(influence, readersOf(report, policy, true), k);
   const { shown, hidden } = report.groups
     ? discloseGroups({ report, policy, k, individual })
     : { shown: [], hidden: [] };

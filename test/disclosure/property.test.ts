@@ -45,8 +45,11 @@ const channel = fc.integer({ min: 3, max: 7 }).chain((n) =>
 /** Readers that can see one message: the asker, or everyone for a channel post. */
 function readersOf(members: readonly SyntheticMember[], reader: string | undefined) {
   if (reader !== undefined) return [members.some((m) => m.id === reader) ? reader : null];
-  return [null, ...members.map((m) => m.id)];
+  return [null, ...members.map((m) => m.id), FACILITATOR];
 }
+
+/** A facilitator reading a channel post: they also saw every named share in a private check. */
+const FACILITATOR = "(facilitator)";
 
 function leaks(args: {
   members: readonly SyntheticMember[];
@@ -58,12 +61,20 @@ function leaks(args: {
 }): string[] {
   const found: string[] = [];
   for (const reader of args.readers) {
-    const scenario = scenarioFor(args.members, args.namesOn, reader);
+    // The facilitator's own check shows named shares only when it does not withhold them.
+    const counted = args.members.filter((m) => !m.named).length;
+    const facilitatorSees = counted === 0 || counted >= args.k;
+    const facilitator = reader === FACILITATOR && facilitatorSees;
+    if (reader === FACILITATOR && !facilitatorSees) continue;
+    const scenario = {
+      ...scenarioFor(args.members, args.namesOn, facilitator ? null : reader),
+      ...(facilitator ? { alsoKnows: args.members.filter((m) => m.named).map((m) => m.id) } : {}),
+    };
     const widths = inferredWidths([args.blocks], scenario);
     const baseline = baselineWidths(scenario, args.k, args.top);
     for (const [id, width] of widths) {
       // Members named to the reader agreed to be named: their shares are not protected.
-      if (scenario.known.has(id)) continue;
+      if (scenario.known.has(id) || scenario.alsoKnows?.includes(id)) continue;
       const before = baseline.get(id) ?? Number.POSITIVE_INFINITY;
       if (width <= BAND + EPS && before > BAND + EPS) {
         found.push(`reader ${reader ?? "outside"}: ${id} to ${width.toFixed(3)}`);

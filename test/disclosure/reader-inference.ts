@@ -26,6 +26,8 @@ export interface Scenario {
   readonly reader: string | null;
   /** Group label → its active members. */
   readonly groups: ReadonlyMap<string, readonly string[]>;
+  /** Members whose shares the reader knows from other answers (a facilitator's private check). */
+  readonly alsoKnows?: readonly string[];
 }
 
 /** Half of a whole percent: the rounding of every percentage shown. */
@@ -120,15 +122,16 @@ export function inferredWidths(
 ): Map<string, number> {
   const r = readMessages(messages, scenario);
   const truth = new Map(scenario.members.map((m) => [m.id, m.share]));
-  // The reader always knows their own share (they can ask for it privately).
-  if (
-    scenario.reader !== null &&
-    truth.has(scenario.reader) &&
-    !r.knownShares.has(scenario.reader)
-  ) {
-    const own = truth.get(scenario.reader) ?? 0;
-    r.knownShares.set(scenario.reader, own);
-    // In a channel post their own bar is anonymous: they recognise it by its value.
+  // The reader always knows their own share (they can ask for it privately), and whatever other
+  // answers told them; an anonymous bar with that value is recognised as theirs.
+  const extra = [
+    ...(scenario.reader === null ? [] : [scenario.reader]),
+    ...(scenario.alsoKnows ?? []),
+  ];
+  for (const id of extra) {
+    if (!truth.has(id) || r.knownShares.has(id)) continue;
+    const own = truth.get(id) ?? 0;
+    r.knownShares.set(id, own);
     if (r.anonymous.length > 0) {
       let closest = 0;
       r.anonymous.forEach((v, i) => {
@@ -215,7 +218,7 @@ export function inferredWidths(
  * the reader's own share, and, where at least k members are unknown, their anonymous values.
  */
 export function baselineWidths(scenario: Scenario, k: number, top: number): Map<string, number> {
-  const knownIds = new Set(scenario.known.keys());
+  const knownIds = new Set([...scenario.known.keys(), ...(scenario.alsoKnows ?? [])]);
   if (scenario.reader !== null) knownIds.add(scenario.reader);
   const unknown = scenario.members.filter((m) => !knownIds.has(m.id));
   const own = scenario.members.find((m) => m.id === scenario.reader)?.share ?? 0;
