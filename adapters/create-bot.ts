@@ -75,7 +75,12 @@ export function createBot(options: BotOptions): Bot {
     const previous = analyzeSnapshot(snapshot, analysisSettingsFor(settings), {
       until: slotAt - 7 * DAY_MS,
     });
-    const policy = await namingPolicy({ report, deps: commandDeps, namesOn: settings.names });
+    const policy = await namingPolicy({
+      report,
+      deps: commandDeps,
+      namesOn: settings.names,
+      disclosure: { snapshot, minMembers: settings.minMembers },
+    });
     return digestMessage({ report, previous: previous.sufficient ? previous : null, policy });
   }
 
@@ -95,11 +100,16 @@ export function createBot(options: BotOptions): Bot {
       return null;
     }
     lastNoteCheck.set(channel, { at: now, lastEventAt });
-    const { settings, report } = await analyse(channel, now);
+    const { settings, snapshot, report } = await analyse(channel, now);
     if (settings.notes === "off" || !report.sufficient) return null;
     const decision = await noteDecision(store, channel, report, now, settings.notes);
     if (!decision.post || decision.audience === null) return null;
-    const policy = await namingPolicy({ report, deps: commandDeps, namesOn: settings.names });
+    const policy = await namingPolicy({
+      report,
+      deps: commandDeps,
+      namesOn: settings.names,
+      disclosure: { snapshot, minMembers: settings.minMembers },
+    });
     const member =
       decision.member !== null && !decision.member.startsWith(PSEUDONYM_PREFIX)
         ? decision.member
@@ -113,10 +123,9 @@ export function createBot(options: BotOptions): Bot {
   }
 
   async function sendToFacilitators(channel: string, message: OutgoingMessage): Promise<void> {
-    const stored = await store.listFacilitators(channel);
-    const targets = new Set(
-      [...options.facilitators, ...stored].filter((id) => !id.startsWith(PSEUDONYM_PREFIX)),
-    );
+    // The role keeps its platform id, so facilitators who joined `counted` are reached too.
+    const stored = await store.facilitatorPlatformIds(channel);
+    const targets = new Set([...options.facilitators, ...stored]);
     for (const id of targets) await platform.postPrivately(channel, id, message);
   }
 

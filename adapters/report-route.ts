@@ -123,6 +123,7 @@ export function createReportRoute(deps: ReportRouteDeps): ReportRoute {
           deps: commandDeps,
           namesOn: facilitator || settings.names,
           reader: { id: readerId(deps.store, snapshot, reader), platformId: reader },
+          disclosure: { snapshot, minMembers: settings.minMembers, facilitator },
         });
         const html = reportPage({
           ...analysis,

@@ -12,6 +12,7 @@ import { parseDateRange, windowAndPrevious } from "../../src/domain/date-range.j
 import { PlumblineError } from "../../src/domain/errors.js";
 import type { AnalysisSettings } from "../../src/domain/settings.js";
 import { compareBlocks, whatIfBlocks } from "../../src/report/compare-blocks.js";
+import { disclosureInput } from "../../src/report/group-membership.js";
 import { renderText } from "../../src/report/render-text.js";
 import { summaryBlocks } from "../../src/report/summary-blocks.js";
 import { ANALYSIS_OPTIONS, parseCommandArgs, parseUntil, settingsFromFlags } from "./cli-flags.js";
@@ -50,7 +51,20 @@ export async function runAnalyze(argv: readonly string[], io: CliIo): Promise<nu
   const { parsed, settings, until, snapshot } = await prepare(argv, io, usage);
   const report = analyzeSnapshot(snapshot, settings, until === undefined ? {} : { until });
   print(io, parsed.values.json === true, report, () =>
-    renderText(summaryBlocks(report, { namesOn: true })),
+    // The JSON keeps every figure for the operator; the text follows the chat's disclosure rules
+    // as a facilitator outside the channel's members would read them privately.
+    renderText(
+      summaryBlocks(report, {
+        namesOn: true,
+        reader: "(operator)",
+        disclosure: disclosureInput({
+          snapshot,
+          report,
+          minMembers: settings.minMembers,
+          facilitator: true,
+        }),
+      }),
+    ),
   );
   return 0;
 }

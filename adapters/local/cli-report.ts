@@ -10,6 +10,7 @@ import { resolve } from "node:path";
 import { type DateRange, parseDateRange } from "../../src/domain/date-range.js";
 import { PlumblineError } from "../../src/domain/errors.js";
 import { analyzeForPage } from "../../src/report/charts/page-analysis.js";
+import { disclosureInput } from "../../src/report/group-membership.js";
 import { reportPage } from "../../src/report/report-page.js";
 import { ANALYSIS_OPTIONS, parseCommandArgs, parseUntil, settingsFromFlags } from "./cli-flags.js";
 import type { CliIo } from "./cli-io.js";
@@ -63,7 +64,17 @@ export async function runReport(
   });
   const html = reportPage({
     ...analysis,
-    policy: { namesOn: true },
+    // As a facilitator outside the channel's members would read it (DESIGN.md §7).
+    policy: {
+      namesOn: true,
+      reader: "(operator)",
+      disclosure: disclosureInput({
+        snapshot: source.snapshot,
+        report: analysis.report,
+        minMembers: settings.minMembers,
+        facilitator: true,
+      }),
+    },
     generatedAt: (options.now ?? Date.now)(),
   });
   const path = resolve(io.cwd, out);

@@ -24,14 +24,14 @@ const MEMBERS: readonly { id: string; consent: ConsentLevel; group: string }[] =
   { id: "ines", consent: "named", group: "front-desk" },
   { id: "kofi", consent: "named", group: "repair-crew" },
   { id: "lena", consent: "counted", group: "front-desk" },
-  { id: "mato", consent: "named", group: "repair-crew" },
+  { id: "mato", consent: "counted", group: "repair-crew" },
   { id: "nadia", consent: "named", group: "outreach" },
   { id: "oren", consent: "counted", group: "repair-crew" },
-  { id: "pia", consent: "named", group: "outreach" },
-  { id: "quinn", consent: "named", group: "front-desk" },
+  { id: "pia", consent: "counted", group: "outreach" },
+  { id: "quinn", consent: "counted", group: "front-desk" },
   { id: "ravi", consent: "counted", group: "outreach" },
   { id: "sol", consent: "named", group: "repair-crew" },
-  { id: "tomas", consent: "named", group: "outreach" },
+  { id: "tomas", consent: "counted", group: "outreach" },
   { id: "uma", consent: "off", group: "front-desk" },
 ];
 
@@ -164,12 +164,16 @@ export function demoLog(seed = 2026): string {
     .concat("\n");
 }
 
+function levelCount(level: ConsentLevel): number {
+  return MEMBERS.filter((m) => m.consent === level).length;
+}
+
 export function demoDescription(): string {
   return [
     "Scenario (invented): the volunteers' channel of a neighbourhood tool library, 14 members, 8 weeks",
     "from 2026-10-05. Weeks 1–4: the coordinator opens nearly every thread and most replies go to her.",
     "Weeks 5–8: rotating hosts open the threads and members answer one another.",
-    "Consent: 10 members named, 3 counted but never named, 1 has not opted in (never counted).",
+    `Consent: ${levelCount("named")} members named, ${levelCount("counted")} counted but never named, ${levelCount("off")} has not opted in (never counted).`,
   ].join("\n");
 }
 

@@ -64,7 +64,12 @@ export async function check(
   }
   const { settings, snapshot, report } = await viewChannel(context, deps);
   if (post) {
-    const policy = await namingPolicy({ report, deps, namesOn: settings.names });
+    const policy = await namingPolicy({
+      report,
+      deps,
+      namesOn: settings.names,
+      disclosure: { snapshot, minMembers: settings.minMembers },
+    });
     const blocks: Block[] = [
       ...summaryBlocks(report, policy),
       { kind: "footer", text: `Posted by a facilitator. ${EXPLAIN_POINTER}` },
@@ -77,6 +82,7 @@ export async function check(
     deps,
     namesOn: facilitator || settings.names,
     reader,
+    disclosure: { snapshot, minMembers: settings.minMembers, facilitator },
   });
   return respond([
     ...summaryBlocks(report, policy),

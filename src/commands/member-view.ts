@@ -9,6 +9,7 @@ import type { ConsentLevel } from "../domain/events.js";
 import type { ConsentChange, LedgerSnapshot } from "../domain/ledger.js";
 import type { AnalysisReport } from "../domain/report.js";
 import { PSEUDONYM_PREFIX, type Store } from "../ports/store.js";
+import { disclosureInput } from "../report/group-membership.js";
 import type { NamingPolicy } from "../report/naming.js";
 import type { CommandDeps } from "./command-types.js";
 
@@ -65,13 +66,16 @@ function shownMembers(report: AnalysisReport): string[] {
 
 /**
  * The naming policy for one audience, with display names looked up beforehand (the policy's
- * lookup is synchronous). `reader` is the reading member, if the answer is private.
+ * lookup is synchronous). `reader` is the reading member, if the answer is private. With the
+ * channel's snapshot and `minMembers` the policy carries the disclosure inputs (group membership,
+ * k); without them the disclosure rules fall back to hiding every group beside shares.
  */
 export async function namingPolicy(args: {
   report: AnalysisReport;
   deps: CommandDeps;
   namesOn: boolean;
   reader?: { id: string; platformId: string };
+  disclosure?: { snapshot: LedgerSnapshot; minMembers: number; facilitator?: boolean };
 }): Promise<NamingPolicy> {
   const { report, deps, namesOn, reader } = args;
   const named = new Set((report.influence ?? []).filter((e) => e.named).map((e) => e.member));
@@ -88,6 +92,7 @@ export async function namingPolicy(args: {
   return {
     namesOn,
     ...(reader ? { reader: reader.id } : {}),
+    ...(args.disclosure ? { disclosure: disclosureInput({ report, ...args.disclosure }) } : {}),
     displayName: (member) =>
       names.get(member) ?? (reader && member === reader.id ? reader.platformId : member),
   };

@@ -5,7 +5,6 @@
  * added with `/influence facilitator add`. Everyone else asking for a facilitator command is told
  * who can do it.
  */
-import { PSEUDONYM_PREFIX } from "../ports/store.js";
 import type { CommandContext, CommandDeps } from "./command-types.js";
 
 /** Whether the member asking may run facilitator commands in this channel. */
@@ -21,19 +20,19 @@ export async function nameOf(deps: CommandDeps, platformId: string): Promise<str
 }
 
 /**
- * The facilitators a member can be pointed to: configured ones and added ones whose platform id is
- * kept (consent `named`); added members without a kept id are only counted.
+ * The facilitators a member can be pointed to: configured ones and added ones (the role keeps its
+ * platform id, whatever the facilitator's consent); rows stored before the role kept ids are only
+ * counted.
  */
 async function knownFacilitators(
   context: CommandContext,
   deps: CommandDeps,
 ): Promise<{ names: string[]; unnamed: number }> {
   const added = await deps.store.listFacilitators(context.channel);
-  const ids = [
-    ...new Set([...deps.facilitators, ...added.filter((id) => !id.startsWith(PSEUDONYM_PREFIX))]),
-  ];
+  const kept = await deps.store.facilitatorPlatformIds(context.channel);
+  const ids = [...new Set([...deps.facilitators, ...kept])];
   const names = await Promise.all(ids.map((id) => nameOf(deps, id)));
-  return { names, unnamed: added.filter((id) => id.startsWith(PSEUDONYM_PREFIX)).length };
+  return { names, unnamed: Math.max(0, added.length - kept.length) };
 }
 
 /** "Only this channel's facilitators can <action>: ask one of them (…), or a workspace admin." */

@@ -158,6 +158,12 @@ export interface Store {
   isFacilitator(channel: string, platformId: string): Promise<boolean>;
   /** Facilitators as snapshot ids (platform id when kept, else `~` + key), sorted. */
   listFacilitators(channel: string): Promise<string[]>;
+  /**
+   * Platform ids of the channel's added facilitators, whatever their consent (the role keeps its
+   * own platform id, DESIGN.md §7), sorted; a row stored before the role kept ids and never
+   * re-added is left out.
+   */
+  facilitatorPlatformIds(channel: string): Promise<string[]>;
 
   /** Inserts the claim (ON CONFLICT DO NOTHING); true only for the one caller that inserted it. */
   claimPost(request: ClaimRequest): Promise<boolean>;

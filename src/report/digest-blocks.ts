@@ -11,6 +11,7 @@ import type { AnalysisReport } from "../domain/report.js";
 import type { OutgoingMessage } from "../ports/chat-platform.js";
 import { CAUTIONS_LINE } from "./cautions.js";
 import { shareBarsChart } from "./charts/share-bars-chart.js";
+import { disclose, hiddenGroupRows } from "./disclosure.js";
 import {
   changeText,
   decimal1,
@@ -146,7 +147,9 @@ function figureRows(args: DigestArgs): FigureRow[] {
   const ev = report.effectiveVoices;
   const top = report.top;
   if (ev && top && report.influence) {
-    const label = memberLabeller(report.influence, policy);
+    const shown = disclose(report, policy);
+    const named = memberLabeller(report.influence, policy);
+    const label = (member: string) => (shown.individual ? named(member) : "one member");
     rows.push(
       {
         label: "Effective voices",
@@ -191,20 +194,24 @@ export function digestBlocks(args: DigestArgs): Block[] {
   } else {
     blocks.push({ kind: "note", text: plainReading(report) });
     blocks.push({ kind: "figures", rows: figureRows(args) });
-    if (report.groups && report.groups.length > 0) {
+    const shown = disclose(report, args.policy);
+    const hidden = hiddenGroupRows(shown);
+    if (shown.groups && shown.groups.length + hidden.length > 0) {
       blocks.push({
         kind: "figures",
         rows: [
           { label: "Groups", value: "share of influence", detail: "share of members" },
-          ...report.groups.map((g) => ({
+          ...shown.groups.map((g) => ({
             label: `  ${g.group}`,
             value: `${percent(g.share)}, interval ${percentRange(g.low, g.high)}`,
             detail: `${percent(g.headcountShare)} of members (${g.members})`,
           })),
+          ...hidden,
         ],
       });
     }
-    const bars = shareBars(report, args.policy);
+    if (shown.withheld) blocks.push({ kind: "note", text: shown.withheld });
+    const bars = shown.individual ? shareBars(report, args.policy) : null;
     if (bars) blocks.push(bars);
   }
   blocks.push({ kind: "cautions", text: CAUTIONS_LINE });
@@ -227,6 +234,8 @@ export function digestMessage(args: DigestArgs): OutgoingMessage {
   const blocks = digestBlocks(args);
   const text = renderText(blocks);
   if (args.report.status === "insufficient") return { blocks, text };
+  // The chart shows individual shares: never where the text withholds them.
+  if (!disclose(args.report, args.policy).individual) return { blocks, text };
   const svg = shareBarsChart(args.report, args.policy, { maxBars: DIGEST_MAX_BARS });
   if (svg === null) return { blocks, text };
   return { blocks, text, chart: { svg, alt: chartAltText(args.report) } };

@@ -122,6 +122,10 @@ export function figureLine(entry: (typeof FIGURES)[number]): string {
   return `${term}: ${meaning} Example: ${example}`;
 }
 
+const PRIVACY = [
+  "What no message gives away: nobody can work out the share of a member who is not named to them to within 5 points either way. A group's share is shown only when the group and the rest of the channel each have at least as many active members as the channel's minimum (the minmembers setting, never below 3); otherwise it reads \"hidden: fewer than k members\". When almost everyone is named, so that the named shares would give the others' away by subtraction, individual shares are withheld and only the channel figures are shown. A group whose members changed during the window stays hidden until the window has moved on, so two answers cannot be subtracted.",
+];
+
 /** The how to read as neutral blocks. */
 export function explainBlocks(): Block[] {
   return [
@@ -137,6 +141,7 @@ export function explainBlocks(): Block[] {
       kind: "note",
       text: "The model behind the figures, by its technical names: /influence explain more",
     },
+    ...notes(PRIVACY),
     { kind: "heading", text: "Cautions" },
     ...notes(CAUTIONS_FULL),
   ];

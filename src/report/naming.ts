@@ -4,6 +4,7 @@
  * channel's `names` setting is on, or the reader is that member; everyone else appears as
  * "member k" (k = their place in the share ranking, which carries no identity).
  */
+import type { DisclosureInput } from "./disclosure.js";
 
 export interface NamingPolicy {
   /** The channel's `names` setting (facilitator views, the CLI operator). */
@@ -12,6 +13,8 @@ export interface NamingPolicy {
   readonly reader?: string;
   /** Display names for ids (e.g. platform ids → handles); ids are shown where absent. */
   readonly displayName?: (member: string) => string;
+  /** The channel's disclosure inputs (k, group membership); conservative defaults when absent. */
+  readonly disclosure?: DisclosureInput;
   /**
    * The number in "member k" for each member, when one message shows several reports (a compare's
    * two panels) and a member must keep one label across them; absent: the place in the ranking.

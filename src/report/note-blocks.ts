@@ -10,6 +10,7 @@ import type { AnalysisReport } from "../domain/report.js";
 import type { OutgoingMessage } from "../ports/chat-platform.js";
 import { CAUTIONS_LINE } from "./cautions.js";
 import { EXPLAIN_POINTER, windowText } from "./digest-blocks.js";
+import { disclose } from "./disclosure.js";
 import { decimal1, percent, percentRange, probability } from "./format.js";
 import { displayMember, type NamingPolicy } from "./naming.js";
 import { renderText } from "./render-text.js";
@@ -74,7 +75,8 @@ export function noteBlocks(args: NoteArgs): Block[] {
     blocks.push({ kind: "cautions", text: CAUTIONS_LINE });
     return blocks;
   }
-  const named = namedSubject(report, policy);
+  // Where individual shares are withheld the note names nobody, not even a named member.
+  const named = disclose(report, policy).individual ? namedSubject(report, policy) : null;
   const subject = named ?? "One member's";
   blocks.push({
     kind: "note",

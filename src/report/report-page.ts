@@ -25,6 +25,7 @@ import { shareAxisMax, shareBarsChart } from "./charts/share-bars-chart.js";
 import { escapeXml } from "./charts/svg.js";
 import type { WeeklyPoint } from "./charts/weekly-series.js";
 import { compareBlocks } from "./compare-blocks.js";
+import { disclose } from "./disclosure.js";
 import { explainBlocks } from "./explain-blocks.js";
 import { decimal1, percent, percentRange } from "./format.js";
 import { memberLabeller, type NamingPolicy, samePageLabels } from "./naming.js";
@@ -195,12 +196,15 @@ function compareSection(result: CompareReport, policy: NamingPolicy): string {
   );
   const bars = (report: AnalysisReport, name: string, range: string) =>
     figure(
-      shareBarsChart(report, policy, {
-        kind: `shares-${name.toLowerCase()}`,
-        title: `Shares, period ${name}`,
-        maxBars: 12,
-        axisMax,
-      }),
+      // Each period's bars follow that period's disclosure rules (a join can leave one unnamed).
+      disclose(report, policy).individual
+        ? shareBarsChart(report, policy, {
+            kind: `shares-${name.toLowerCase()}`,
+            title: `Shares, period ${name}`,
+            maxBars: 12,
+            axisMax,
+          })
+        : null,
       `Period ${name}: ${range}; both periods on the same axis.`,
       sharesTable(report, policy, `shares, period ${name} ${range}`, 12),
     ) || `<p>Period ${html(name)} (${html(range)}) has no shares to show.</p>`;
@@ -258,13 +262,14 @@ function mapTable(data: AttentionMapData): string {
 export function reportPage(input: ReportPageInput): string {
   const { report, policy } = input;
   const summary: Block[] = summaryBlocks(report, policy).filter((b) => b.kind !== "heading");
+  // The bars show individual shares: never where the figures above withhold them.
   const shares = figure(
-    shareBarsChart(report, policy),
+    disclose(report, policy).individual ? shareBarsChart(report, policy) : null,
     `Bars: influence share. Whiskers: the ${Math.round(report.settings.interval * 100)}% interval. Dashed: the line.`,
     report.influence ? sharesTable(report, policy, "influence shares") : "",
   );
   const mapData =
-    input.attention && report.influence
+    input.attention && report.influence && disclose(report, policy).individual
       ? attentionMapData({ report, input: input.attention, policy })
       : null;
   const map =

@@ -8,6 +8,7 @@ import type { Block, FigureRow } from "../domain/blocks.js";
 import type { AnalysisReport } from "../domain/report.js";
 import { CAUTIONS_LINE } from "./cautions.js";
 import { neededText, RANK_LABELS, shareBars, structureText, windowText } from "./digest-blocks.js";
+import { disclose, hiddenGroupRows } from "./disclosure.js";
 import { decimal1, percent, percentRange, probability, voicesOf } from "./format.js";
 import { memberLabeller, type NamingPolicy } from "./naming.js";
 import { plainReading } from "./reading.js";
@@ -42,7 +43,9 @@ export function summaryBlocks(
     blocks.push({ kind: "cautions", text: CAUTIONS_LINE });
     return blocks;
   }
-  const label = memberLabeller(report.influence, policy);
+  const shown = disclose(report, policy);
+  const named = memberLabeller(report.influence, policy);
+  const label = (member: string) => (shown.individual ? named(member) : "one member");
   const ev = report.effectiveVoices;
   const rows: FigureRow[] = [
     {
@@ -58,7 +61,7 @@ export function summaryBlocks(
     {
       label: "Largest share",
       value: percent(report.top.share),
-      detail: `interval ${percentRange(report.top.low, report.top.high)}; ${label(report.top.member)}`,
+      detail: `interval ${percentRange(report.top.low, report.top.high)}${shown.individual ? `; ${label(report.top.member)}` : ""}`,
     },
   ];
   if (report.line) {
@@ -75,8 +78,9 @@ export function summaryBlocks(
   // `explain more`, not in a check (DESIGN.md §1).
   blocks.push({ kind: "note", text: plainReading(report) });
   blocks.push({ kind: "figures", rows });
+  if (shown.withheld) blocks.push({ kind: "note", text: shown.withheld });
   // "member k" is explained in a note of its own (the page shows the note but draws the bars).
-  const bars = shareBars(report, policy, options.maxBars ?? 20, false);
+  const bars = shown.individual ? shareBars(report, policy, options.maxBars ?? 20, false) : null;
   if (bars) blocks.push(bars);
   const labelsShown = [
     ...(bars?.kind === "bars" ? bars.rows.map((r) => r.label) : []),
@@ -86,9 +90,10 @@ export function summaryBlocks(
   if (labelsShown.some((l) => /^member \d+$/.test(l))) {
     blocks.push({ kind: "note", text: `${RANK_LABELS}.` });
   }
-  const groups = report.groups ?? report.clusters?.groups ?? null;
+  const groups = shown.groups ?? shown.clusters?.groups ?? null;
+  const hidden = hiddenGroupRows(shown);
   // One cluster covering everyone says nothing: clusters are shown only when there are several.
-  if (groups && (report.groups ? groups.length > 0 : groups.length > 1)) {
+  if (groups && (report.groups ? groups.length + hidden.length > 0 : groups.length > 1)) {
     const title = report.groups
       ? "Groups"
       : "Groups found in who answers whom (found by plumbline, not named by anyone)";
@@ -101,10 +106,11 @@ export function summaryBlocks(
           value: `${percent(g.share)} of influence`,
           detail: `${percent(g.headcountShare)} of members (${g.members}); interval ${percentRange(g.low, g.high)}`,
         })),
+        ...hidden,
       ],
     });
   }
-  if (report.contributors && report.contributors.length > 0) {
+  if (shown.individual && report.contributors && report.contributors.length > 0) {
     const top = report.contributors
       .slice(0, 5)
       .map((c) => `${label(c.member)} ${percent(c.share)}`);

@@ -94,7 +94,7 @@ class MemoryStore implements Store {
   }
 
   async addFacilitator(channel: string, platformId: string): Promise<void> {
-    this.channel(channel).facilitators.add(this.memberKey(platformId));
+    this.channel(channel).facilitators.set(this.memberKey(platformId), platformId);
   }
 
   async removeFacilitator(channel: string, platformId: string): Promise<void> {
@@ -108,7 +108,12 @@ class MemoryStore implements Store {
   async listFacilitators(channel: string): Promise<string[]> {
     const c = this.state.channels.get(channel);
     if (c === undefined) return [];
-    return [...c.facilitators].map((k) => snapshotId(k, c.named)).sort(compareStrings);
+    return [...c.facilitators.keys()].map((k) => snapshotId(k, c.named)).sort(compareStrings);
+  }
+
+  async facilitatorPlatformIds(channel: string): Promise<string[]> {
+    const c = this.state.channels.get(channel);
+    return c === undefined ? [] : [...c.facilitators.values()].sort(compareStrings);
   }
 
   async claimPost(request: ClaimRequest): Promise<boolean> {

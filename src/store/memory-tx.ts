@@ -33,7 +33,8 @@ export interface MemoryChannel {
   readonly named: Map<string, string>;
   /** Channel state kind → JSON text. */
   readonly state: Map<string, string>;
-  readonly facilitators: Set<string>;
+  /** Facilitator member key → platform id (kept with the role). */
+  readonly facilitators: Map<string, string>;
 }
 
 export interface MemoryState {
@@ -53,7 +54,7 @@ export function emptyChannel(): MemoryChannel {
     messages: new Map(),
     named: new Map(),
     state: new Map(),
-    facilitators: new Set(),
+    facilitators: new Map(),
   };
 }
 

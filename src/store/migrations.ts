@@ -86,6 +86,17 @@ const MIGRATIONS: readonly Migration[] = [
       }
     },
   },
+  {
+    // Facilitators are a role stored with their platform id (DESIGN.md §7), separate from their
+    // consent for counting, so notes for facilitators reach those who joined `counted` too.
+    // Rows from before keep the id a named member had; the others get it when next added.
+    version: 3,
+    statements: [
+      `ALTER TABLE facilitator ADD COLUMN platform_id TEXT`,
+      `UPDATE facilitator SET platform_id = (SELECT n.platform_id FROM named_member n
+        WHERE n.channel = facilitator.channel AND n.member = facilitator.member)`,
+    ],
+  },
 ];
 
 /** The schema version this code writes and reads. */

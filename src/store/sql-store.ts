@@ -234,8 +234,9 @@ export class SqlStore implements Store {
   async addFacilitator(channel: string, platformId: string): Promise<void> {
     await this.write((conn) =>
       conn.run(
-        "INSERT INTO facilitator (channel, member) VALUES (?, ?) ON CONFLICT (channel, member) DO NOTHING",
-        [channel, this.memberKey(platformId)],
+        `INSERT INTO facilitator (channel, member, platform_id) VALUES (?, ?, ?)
+         ON CONFLICT (channel, member) DO UPDATE SET platform_id = excluded.platform_id`,
+        [channel, this.memberKey(platformId), platformId],
       ),
     );
   }
@@ -265,6 +266,16 @@ export class SqlStore implements Store {
       const ids = await platformIds(conn, channel);
       return rows.map((r) => snapshotId(String(r.member), ids)).sort(compareStrings);
     });
+  }
+
+  async facilitatorPlatformIds(channel: string): Promise<string[]> {
+    const rows = await this.read((conn) =>
+      conn.all(
+        "SELECT platform_id FROM facilitator WHERE channel = ? AND platform_id IS NOT NULL",
+        [channel],
+      ),
+    );
+    return rows.map((r) => String(r.platform_id)).sort(compareStrings);
   }
 
   claimPost(request: ClaimRequest): Promise<boolean> {

@@ -121,7 +121,19 @@ describe.skipIf(skip)("report page in Chromium", () => {
     const io = { stdout: () => {}, stderr: () => {}, env: {}, cwd: ARTIFACTS };
     const ranges = demoRanges();
     await runReport(
-      [log, "--out", "demo.html", "--samples", "200", "--a", ranges.a.label, "--b", ranges.b.label],
+      [
+        log,
+        "--out",
+        "demo.html",
+        "--samples",
+        "200",
+        "--min-members",
+        "3",
+        "--a",
+        ranges.a.label,
+        "--b",
+        ranges.b.label,
+      ],
       io,
       { now: () => NOW },
     );

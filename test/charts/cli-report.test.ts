@@ -39,6 +39,9 @@ describe("plumbline report", () => {
         "2026-10-01..2026-10-28",
         "--b",
         "2026-10-29..2026-11-25",
+        // Six members, two named: k = 3 leaves enough unnamed for shares (DESIGN.md §7).
+        "--min-members",
+        "3",
       ],
       cliIo,
       { now: () => Date.UTC(2026, 11, 1) },

@@ -83,7 +83,12 @@ describe("chart and page colours", () => {
       b: parseDateRange(`2026-11-03..${day}`),
     },
   });
-  const html = reportPage({ ...analysis, policy: { namesOn: true }, generatedAt: 0 });
+  // k = 3: the fixture's 4 counted members may then be shown, so every chart is drawn.
+  const html = reportPage({
+    ...analysis,
+    policy: { namesOn: true, disclosure: { minMembers: 3 } },
+    generatedAt: 0,
+  });
   const svgs = html.match(/<svg[\s\S]*?<\/svg>/g) ?? [];
   const elements = svgs.flatMap((svg) =>
     [...svg.matchAll(/<(text|line|path|polyline|polygon|circle|rect)\s([^>]*)>/g)].map((m) => ({

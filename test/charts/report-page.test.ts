@@ -20,7 +20,8 @@ const analysis = analyzeForPage(snapshot, FIXTURE_SETTINGS, {
 function page(namesOn: boolean, reader?: string): string {
   return reportPage({
     ...analysis,
-    policy: { namesOn, ...(reader ? { reader } : {}) },
+    // Six members, two named: k = 3 leaves enough members unnamed for individual shares.
+    policy: { namesOn, ...(reader ? { reader } : {}), disclosure: { minMembers: 3 } },
     generatedAt: Date.UTC(2026, 11, 1),
   });
 }
@@ -77,7 +78,11 @@ describe("report page", () => {
   it("escapes display names", () => {
     const evil = reportPage({
       ...analysis,
-      policy: { namesOn: true, displayName: (m) => `<b onload="x">${m}</b>` },
+      policy: {
+        namesOn: true,
+        displayName: (m) => `<b onload="x">${m}</b>`,
+        disclosure: { minMembers: 3 },
+      },
       generatedAt: 0,
     });
     expect(evil).not.toContain("<b onload");

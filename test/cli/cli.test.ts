@@ -35,6 +35,12 @@ const demoLogPath = writeLog(demoEvents(), "demo.jsonl");
 
 describe("plumbline CLI", () => {
   it("analyze prints the summary with bars, intervals and the cautions line", async () => {
+    // The demo names 6 of 13 active members and counts 7 unnamed: with k = 5 the shares are
+    // shown; with k = 8 the named shares would narrow the 7 others, so the text withholds them
+    // (DESIGN.md §7).
+    const withheld = await run(["analyze", demoLogPath, "--min-members", "8"]);
+    expect(withheld.out).toContain("Individual shares are withheld");
+    expect(withheld.out).not.toContain("■");
     const { code, out, err } = await run(["analyze", demoLogPath]);
     expect(err).toBe("");
     expect(code).toBe(0);

@@ -56,11 +56,21 @@ describe("check", () => {
 
   it("group labels show up as group shares", async () => {
     const r = await busyChannel();
+    await r.run("UBOSS", "set minmembers 3");
     const labelled = await r.run("UBOSS", "group <@UCY|cy> night shift");
     expect(labelled.message.text).toContain('Cy Cedar is now in the group "night shift"');
     await r.run("UBOSS", "group @UDEE night shift");
-    const text = (await r.run("UBO", "check")).message.text;
-    expect(text).toMatch(/night shift\s+\d+% of influence\s+\(33% of members \(2\)/);
+    // Two members: fewer than k = 3, so hidden (the facilitator still sees the label).
+    const small = (await r.run("UBOSS", "check")).message.text;
+    expect(small).toMatch(/night shift\s+hidden: fewer than 3 members/);
+    expect((await r.run("UBO", "check")).message.text).not.toContain("night shift");
+    await r.run("UBOSS", "group @UELI night shift");
+    // A member reading knows their own share: with 6 members either part would then leave only
+    // 2 unknown, so the group stays hidden to every member (complementary suppression).
+    expect((await r.run("UBO", "check")).message.text).toMatch(/1 group\s+hidden/);
+    // A reader outside the counted members, names off: both parts keep 3 unknown members.
+    const text = (await r.run("UGUS", "check")).message.text;
+    expect(text).toMatch(/night shift\s+\d+% of influence\s+\(50% of members \(3\)/);
     await r.run("UBOSS", "group UCY clear");
     await r.run("UBOSS", "group UDEE clear");
     expect((await r.run("UBO", "check")).message.text).not.toContain("night shift");

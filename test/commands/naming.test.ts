@@ -40,11 +40,30 @@ describe("naming in checks", () => {
   it("with names on, everyone sees the named member, still never a counted one", async () => {
     const r = await busyChannel();
     await r.run("UBOSS", "set names on");
+    // Six active members, one named: a reader who also knows their own share leaves 4 unknown,
+    // which is at least k only for k ≤ 4 (elimination, DESIGN.md §7).
+    await r.run("UBOSS", "set minmembers 4");
     const { memberCheck, facilitatorCheck, posted } = await texts(r);
     expect(memberCheck).toContain(NAMES.UANA);
     expect(posted).toContain(NAMES.UANA);
     expect(facilitatorCheck).toContain(NAMES.UANA);
     expectNoCountedNames(facilitatorCheck);
+    expectNoCountedNames(posted);
+  });
+
+  it("with names on and fewer than k members left unnamed, individual shares are withheld", async () => {
+    const r = await busyChannel();
+    await r.run("UBOSS", "set names on");
+    const { memberCheck, posted } = await texts(r);
+    for (const text of [memberCheck, posted]) {
+      expect(text).toContain(
+        "Individual shares are withheld: fewer than 5 members would be left unnamed",
+      );
+      expect(text).not.toContain(NAMES.UANA);
+      expect(text).not.toMatch(/member \d/);
+      expect(text).toContain("Effective voices");
+      expect(text).toContain("Largest share");
+    }
     expectNoCountedNames(posted);
   });
 

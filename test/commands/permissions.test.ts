@@ -58,9 +58,9 @@ describe("facilitators succeed", () => {
     expect(await r.store.isFacilitator(CHANNEL, "UCY")).toBe(true);
     await r.run("UCY", "set minmembers 4");
     expect((await readChannelSettings(r.store, CHANNEL)).minMembers).toBe(4);
-    // The refusal now lists the added facilitator only if their id is kept (consent `named`).
+    // The role keeps its platform id whatever the consent, so the refusal can name them.
     const refusal = await r.run("UDEE", "set names on");
-    expect(refusal.message.text).toContain("Morgan Maple, 1 other");
+    expect(refusal.message.text).toContain("Morgan Maple, Cy Cedar");
     const removed = await r.run("UBOSS", "facilitator remove @UCY");
     expect(removed.message.text).toContain("Cy Cedar is no longer a facilitator");
     const again = await r.run("UCY", "set minmembers 6");

@@ -110,10 +110,22 @@ describe("noteMessage", () => {
     const named = starReport("named");
     const withNames = noteMessage({
       report: named,
-      policy: { namesOn: true, displayName: (m) => (m === "hub" ? "Hana Hub" : m) },
+      policy: {
+        namesOn: true,
+        displayName: (m) => (m === "hub" ? "Hana Hub" : m),
+        // Six members, one named: every other reader leaves 4 unknown, enough only for k ≤ 4.
+        disclosure: { minMembers: 4 },
+      },
       audience: "facilitators",
     }).text;
     expect(withNames).toContain("Hana Hub's influence share");
+    const withheld = noteMessage({
+      report: named,
+      policy: { namesOn: true, displayName: (m) => (m === "hub" ? "Hana Hub" : m) },
+      audience: "facilitators",
+    }).text;
+    expect(withheld).not.toContain("Hana Hub");
+    expect(withheld).toContain("One member's influence share");
     expect(withNames).toContain("What you might try");
     const counted = starReport("counted");
     const refused = noteMessage({
@@ -167,6 +179,26 @@ describe("how to read, consent notice and help", () => {
     expect(text).toContain("never stored");
     expect(text).toContain("/influence leave");
     expect(text).toContain("HR decision");
+  });
+
+  it("the consent notice says what counted protects against and what it cannot, before joining", () => {
+    const blocks = consentNoticeBlocks();
+    const text = renderText(blocks);
+    const protects = text.indexOf("What `counted` protects you from");
+    const cannot = text.indexOf("What it cannot protect you from");
+    expect(protects).toBeGreaterThan(0);
+    expect(cannot).toBeGreaterThan(protects);
+    expect(text).toContain("within 5 points");
+    expect(text).toContain("very small channel");
+    // Plain words: none of the trade's terms reach the notice.
+    expect(text).not.toMatch(/disclosure|suppression|stationary|DeGroot|k-anonym/i);
+  });
+
+  it("the how to read states the disclosure rule with k from minmembers", () => {
+    const { text } = explainMessage();
+    expect(text).toContain("within 5 points");
+    expect(text).toContain("minmembers setting, never below 3");
+    expect(text).toContain("hidden: fewer than k members");
   });
 
   it("help echoes the unknown input, shortened", () => {

@@ -47,6 +47,8 @@ describe("report links", () => {
     await new Promise<void>((resolve) => server.listen(0, "127.0.0.1", resolve));
     const base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
     try {
+      // k = 3, so the 4 counted members UCY does not know may be shown beside Ana (DESIGN.md §7).
+      await channel.run("UBOSS", "set minmembers 3");
       await channel.store.addFacilitator(CHANNEL, "UCY");
       const link = route.linkFor(CHANNEL, "UCY");
       const asFacilitator = await (await fetch(`${base}${link}`)).text();

@@ -322,6 +322,23 @@ export function storeContract(name: string, makeStore: () => Promise<StoreFixtur
       expect(await store.listFacilitators(c)).toEqual(["F1"]);
     });
 
+    it("keeps a facilitator's platform id with the role, whatever their consent (DESIGN.md §7)", async () => {
+      // F3 joined counted: their consent keeps no platform id, the role does.
+      await ingest(store, consent("F3", "counted"), "f3", { receivedAt: T0 });
+      await store.addFacilitator(c, "F3");
+      await store.addFacilitator(c, "F4");
+      expect(await store.facilitatorPlatformIds(c)).toEqual(["F3", "F4"]);
+      // The snapshot still shows F3 only as a pseudonym: the role does not name them in figures.
+      const snap = await store.loadSnapshot(c);
+      expect(snap.consent.map((x) => x.member)).toEqual([`~${store.memberKey("F3")}`]);
+      await store.removeFacilitator(c, "F4");
+      expect(await store.facilitatorPlatformIds(c)).toEqual(["F3"]);
+      // Leaving erases the role and its platform id with everything else.
+      await store.eraseMember(c, "F3");
+      expect(await store.facilitatorPlatformIds(c)).toEqual([]);
+      expect(await store.isFacilitator(c, "F3")).toBe(false);
+    });
+
     it("lets exactly one claimant post, records the message id, marks expired claims missed", async () => {
       const req = { channel: c, kind: "digest", period: "2026-W45", now: T0, leaseMs: 60_000 };
       const results = await Promise.all([
