@@ -87,7 +87,7 @@ export function settingsFor(
 /** Runs one job (see the module header). */
 export function measureChannel(job: ChannelJob): ChannelResult[] {
   const seed = channelSeed(job);
-  const line = resolveThreshold(DEFAULT_SETTINGS.threshold, job.n);
+  const line = resolveThreshold(settingsFor("none", job.overrides).threshold, job.n);
   const truth = trueChannel({ regime: job.regime, n: job.n, seed, line });
   const channel = `cal-${job.regime}-${job.n}-${job.ratio}-${job.index}-${job.seed}`;
   const sim = simulateChannel({

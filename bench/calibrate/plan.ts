@@ -55,7 +55,7 @@ export const USAGE = `npm run calibrate -- [options]
   --markdown       print the table in the format of docs/calibration.md
   --json           print the cells as JSON
   --strict         exit 1 when a cell misses the floor
-  --from A[,B…]     print saved --json runs again, merged (with --markdown: the table of docs/calibration.md)`;
+  --from A,B       print saved --json runs again, merged (with --markdown: the table of docs/calibration.md)`;
 
 function bad(message: string, code: "ARG_BAD_VALUE" | "ARG_UNKNOWN" = "ARG_BAD_VALUE"): never {
   throw new PlumblineError(code, message, {

@@ -30,9 +30,9 @@ function commit(): string {
   }
 }
 
-function header(plan: CalibrationPlan, seconds: number): string[] {
+function header(plan: CalibrationPlan, seconds: number, revision: string): string[] {
   return [
-    `date ${new Date().toISOString().slice(0, 10)}, commit ${commit()}, node ${process.version}, ${cpus().length} × ${cpus()[0]?.model ?? "cpu"}, load ${loadavg()[0].toFixed(2)}, ${plan.workers} worker(s), ${seconds.toFixed(0)} s`,
+    `date ${new Date().toISOString().slice(0, 10)}, commit ${revision}, node ${process.version}, ${cpus().length} × ${cpus()[0]?.model ?? "cpu"}, load ${loadavg()[0].toFixed(2)}, ${plan.workers} worker(s), ${seconds.toFixed(0)} s`,
     `product settings: the defaults ${JSON.stringify(DEFAULT_SETTINGS)}${Object.keys(plan.overrides).length > 0 ? `, with ${JSON.stringify(plan.overrides)}` : ""}, except halfLifeDays 0 in "none" cells and clusters off`,
     `suite: seed ${plan.seed}, channels per cell ${plan.channels ?? "40 (n ≤ 60), 16 (n = 200), 6 (n = 1000)"}`,
   ];
@@ -91,6 +91,7 @@ async function main(): Promise<number> {
     print(plan.format, lines, cells);
     return plan.strict && cells.some((s) => !s.floor.met) ? 1 : 0;
   }
+  const revision = commit(); // taken at the start: the code that ran
   const started = performance.now();
   const tty = process.stderr.isTTY;
   let lastPrinted = 0;
@@ -103,7 +104,7 @@ async function main(): Promise<number> {
     process.stderr.write(tty ? `\r${text}\x1b[K` : `${text}\n`);
   });
   if (tty) process.stderr.write("\n");
-  print(plan.format, header(plan, (performance.now() - started) / 1000), summaries);
+  print(plan.format, header(plan, (performance.now() - started) / 1000, revision), summaries);
   return plan.strict && summaries.some((s) => !s.floor.met) ? 1 : 0;
 }
 
