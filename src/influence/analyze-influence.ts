@@ -21,6 +21,8 @@ export interface InfluenceOptions {
   readonly seed: number;
   /** Applied to every attention row set before solving (e.g. the what-if cap). */
   readonly transform?: (rows: AttentionRows) => AttentionRows;
+  /** Member → group whose attention profile is the member's prior (default: one group). */
+  readonly groupOf?: Int32Array;
 }
 
 export interface InfluenceResult {
@@ -48,7 +50,7 @@ export function effectiveVoicesOf(shares: ArrayLike<number>): number {
 }
 
 export function analyzeInfluence(counts: CountMatrix, options: InfluenceOptions): InfluenceResult {
-  const prior = buildAttentionPrior(counts, options.background);
+  const prior = buildAttentionPrior(counts, options.background, options.groupOf);
   const rows0 = pointRowsFromPrior(counts, prior);
   const rows = options.transform ? options.transform(rows0) : rows0;
   const point = stationaryVector(rows, { selfWeight: options.selfWeight }).vector;
