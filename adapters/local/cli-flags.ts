@@ -42,9 +42,21 @@ export function parseCommandArgs(
   options: Record<string, OptionSpec>,
   usage: string,
 ): ParsedCommand {
+  // A negative number after a value flag ("--background -1") is that flag's value, so the value
+  // check below names the allowed range instead of parseArgs calling it ambiguous.
+  const args: string[] = [];
+  for (let k = 0; k < argv.length; k++) {
+    const flag = argv[k];
+    const next = argv[k + 1];
+    const spec = flag.startsWith("--") ? options[flag.slice(2)] : undefined;
+    if (spec?.type === "string" && next !== undefined && /^-\d|^-\.\d/.test(next)) {
+      args.push(`${flag}=${next}`);
+      k++;
+    } else args.push(flag);
+  }
   try {
     const { values, positionals } = parseArgs({
-      args: [...argv],
+      args,
       options,
       allowPositionals: true,
       strict: true,

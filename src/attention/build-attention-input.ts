@@ -37,17 +37,21 @@ export function buildAttentionInput(
   const counts = countMatrixFromSignals(set.members, set.signals);
   const wantClusters = settings.clusters && set.labels.every((label) => label === null);
   const seed = options.seed ?? settings.seed ?? deriveSeed(snapshot.channel, settings.until);
-  const clusters = louvainClusters(counts, { seed });
+  // The prior's groups use a fixed Louvain seed, so the seed moves only the intervals.
+  const priorClusters = louvainClusters(counts, { seed: PRIOR_GROUP_SEED });
   return {
     counts,
     signals: set.count,
     closedGroups: findClosedGroups(counts),
     named: set.named,
     labels: set.labels,
-    clusters: wantClusters ? clusters : null,
-    priorGroups: priorGroupsOf(counts.members.length, clusters),
+    clusters: wantClusters ? louvainClusters(counts, { seed }) : null,
+    priorGroups: priorGroupsOf(counts.members.length, priorClusters),
   };
 }
+
+/** Louvain seed of the prior's groups (fixed: the point estimate must not depend on `seed`). */
+export const PRIOR_GROUP_SEED = 1;
 
 /** Below this modularity a partition is treated as no group structure (common practice, ~0.3). */
 export const PRIOR_GROUP_MODULARITY = 0.3;

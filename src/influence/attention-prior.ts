@@ -137,6 +137,24 @@ function profileConcentrations(
 }
 
 /**
+ * log of the Dirichlet–multinomial (Pólya) probability of counts x under Dirichlet(a), without the
+ * multinomial coefficient: ln Γ(A) − ln Γ(N + A) + Σ_j [ln Γ(x_j + a_j) − ln Γ(a_j)], A = Σa,
+ * N = Σx (Minka 2000, "Estimating a Dirichlet distribution", the Pólya likelihood). Cells with
+ * x_j = 0 contribute 0. Non-integer x (effective counts) are allowed.
+ */
+export function logDirichletMultinomial(x: ArrayLike<number>, a: ArrayLike<number>): number {
+  let total = 0;
+  let strength = 0;
+  let cells = 0;
+  for (let j = 0; j < x.length; j++) {
+    total += x[j];
+    strength += a[j];
+    if (x[j] > 0) cells += logGamma(x[j] + a[j]) - logGamma(a[j]);
+  }
+  return logGamma(strength) - logGamma(total + strength) + cells;
+}
+
+/**
  * Log Dirichlet–multinomial likelihood of row i's effective counts under Dirichlet(α·m^(i)),
  * without the multinomial coefficient (it does not depend on α). Unobserved cells cancel.
  */
@@ -171,7 +189,8 @@ export function buildAttentionPrior(
   checkBackground(background);
   const n = counts.members.length;
   const groupIndex = groupOf ?? new Int32Array(n);
-  if (groupIndex.length !== n) throw new RangeError(`groupOf has ${groupIndex.length} entries, expected ${n}`);
+  if (groupIndex.length !== n)
+    throw new RangeError(`groupOf has ${groupIndex.length} entries, expected ${n}`);
   let groups = 1;
   for (let i = 0; i < n; i++) groups = Math.max(groups, groupIndex[i] + 1);
   const effective = effectiveCounts(counts);
@@ -191,7 +210,14 @@ export function buildAttentionPrior(
   const passes = G === 1 ? 1 : PRIOR_DEFAULTS.passes;
   const logs = new Float64Array(G);
   for (let pass = 0; pass < passes; pass++) {
-    concentration = profileConcentrations(counts, effective, rowTotals, strength, groupIndex, groups);
+    concentration = profileConcentrations(
+      counts,
+      effective,
+      rowTotals,
+      strength,
+      groupIndex,
+      groups,
+    );
     profile = normalisedBlocks(concentration, n);
     for (let i = 0; i < n; i++) {
       if (G === 1) {

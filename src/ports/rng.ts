@@ -50,6 +50,11 @@ function mix64(state: bigint): bigint {
   return z ^ (z >> 31n);
 }
 
+/** The k-th output (k ≥ 0) of SplitMix64 seeded with `seed` (a 64-bit integer as bigint). */
+export function splitMix64Output(seed: bigint, k: number): bigint {
+  return mix64((seed & MASK64) + BigInt(k + 1) * GOLDEN_GAMMA);
+}
+
 /**
  * The generator of posterior draw k (k ≥ 0) for `seed`: independent of every other draw's, and
  * the same whichever thread computes it.
@@ -57,10 +62,9 @@ function mix64(state: bigint): bigint {
 export function createDrawRng(seed: number, k: number): Rng {
   if (!Number.isInteger(k) || k < 0)
     throw new RangeError(`draw index must be an integer ≥ 0, got ${k}`);
-  const root = BigInt(Math.trunc(seed) >>> 0);
-  const streamSeed = mix64(root + BigInt(k + 1) * GOLDEN_GAMMA);
-  const first = mix64(streamSeed + GOLDEN_GAMMA);
-  const second = mix64(streamSeed + 2n * GOLDEN_GAMMA);
+  const streamSeed = splitMix64Output(BigInt(Math.trunc(seed) >>> 0), k);
+  const first = splitMix64Output(streamSeed, 0);
+  const second = splitMix64Output(streamSeed, 1);
   return xoshiro128(
     Number(first & 0xffffffffn),
     Number(first >> 32n),

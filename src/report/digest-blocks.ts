@@ -67,10 +67,9 @@ export function structureText(report: AnalysisReport): string {
   if (c.closedGroups > 1) {
     return `${c.closedGroups} groups listen only among themselves, so there is no single pooled view`;
   }
-  if (!c.reached || c.roundsToHalve === null) return "views keep circling and do not settle";
-  const rounds =
-    c.roundsToHalve === 0 ? "at once" : `about every ${decimal1(c.roundsToHalve)} rounds`;
-  return `one closed group: views settle on one consensus; disagreement halves ${rounds} of discussion`;
+  if (!c.reached) return "views keep circling and do not settle";
+  // No rounds-to-halve in chat (DESIGN.md §4.8): the speed depends on an unmeasured self-weight.
+  return "one closed group: views settle on one consensus";
 }
 
 function signed(x: number, digits: number): string {
