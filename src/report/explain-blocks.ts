@@ -29,7 +29,7 @@ const FIGURES: readonly [string, string][] = [
   ],
   [
     "Interval",
-    "the range the figure is likely to lie in, given how little or much was counted (90% of plausible values fall inside). Wide ranges mean little data; read the range, not just the middle. What it promises: in test channels whose true attention we knew, the 90% range held the true share for about 9 members in 10 (never fewer than 8 in 10, measured with npm run calibrate). It does not promise that every member's true share is inside: about one member in ten may lie outside their range, most often a member with very few replies.",
+    "the range the figure is likely to lie in, given how little or much was counted (90% of plausible values fall inside). Wide ranges mean little data; read the range, not just the middle. What it promises: in test channels whose true attention we knew, the 90% range held the true share for about 8 to 9 members in 10 (measured with npm run calibrate). It does not promise that every member's true share is inside: one member in ten or more may lie outside their range. In large channels where one member leads and everyone has written only a few replies, as few as 3 members in 4 were inside, because the leader's own attention is then seen through a handful of replies.",
   ],
   [
     "Effective voices",
