@@ -44,9 +44,21 @@ export function parseCommandArgs(
   options: Record<string, OptionSpec>,
   usage: string,
 ): ParsedCommand {
+  // A negative number after a value flag ("--background -1") is that flag's value, so the value
+  // check below names the allowed range instead of parseArgs calling it ambiguous.
+  const args: string[] = [];
+  for (let k = 0; k < argv.length; k++) {
+    const flag = argv[k];
+    const next = argv[k + 1];
+    const spec = flag.startsWith("--") ? options[flag.slice(2)] : undefined;
+    if (spec?.type === "string" && next !== undefined && /^-\d|^-\.\d/.test(next)) {
+      args.push(`${flag}=${next}`);
+      k++;
+    } else args.push(flag);
+  }
   try {
     const { values, positionals } = parseArgs({
-      args: [...argv],
+      args,
       options,
       allowPositionals: true,
       strict: true,
@@ -83,6 +95,7 @@ function numberFlag(
     why?: string;
   },
   shown = raw,
+  alternative?: string,
 ): number {
   const value = Number(raw);
   const lowOk = limits.minExclusive ? value > limits.min : value >= limits.min;
@@ -92,7 +105,7 @@ function numberFlag(
     const open = limits.minExclusive ? "above" : "from";
     const close = limits.maxExclusive ? "below" : "to";
     throw new PlumblineError("ARG_BAD_VALUE", `--${flag} ${JSON.stringify(shown)} is not allowed`, {
-      hint: `give ${limits.integer ? "a whole number" : "a number"} ${open} ${limits.min} ${close} ${limits.max}${limits.why ? `; ${limits.why}` : ""}`,
+      hint: `give ${limits.integer ? "a whole number" : "a number"} ${open} ${limits.min} ${close} ${limits.max}${alternative ? `, ${alternative}` : ""}${limits.why ? `; ${limits.why}` : ""}`,
     });
   }
   return value;
@@ -147,6 +160,19 @@ export function settingsFromFlags(
             { min: SETTING_LIMITS.threshold.min, max: SETTING_LIMITS.threshold.max },
             thresholdRaw,
           );
+  const backgroundRaw = get("background");
+  const background =
+    backgroundRaw === undefined
+      ? base.background
+      : backgroundRaw === "auto"
+        ? "auto"
+        : numberFlag(
+            backgroundRaw,
+            "background",
+            { min: 0, max: 1000 },
+            backgroundRaw,
+            "or auto (default)",
+          );
   const seedRaw = get("seed");
   const settings: AnalysisSettings = {
     ...base,
@@ -165,7 +191,7 @@ export function settingsFromFlags(
     halfLifeDays: num("half-life", { min: 0, max: 365 }, base.halfLifeDays),
     replyWeight: num("reply-weight", { min: 0, max: 100 }, base.replyWeight),
     mentionWeight: num("mention-weight", { min: 0, max: 100 }, base.mentionWeight),
-    background: num("background", { min: 0, max: 1000 }, base.background),
+    background,
     selfWeight: num("self-weight", { min: 0, max: 1, maxExclusive: true }, base.selfWeight),
     samples: num("samples", { min: 0, max: 20000, integer: true }, base.samples),
     interval: num(

@@ -83,6 +83,7 @@ export function analyzeSnapshotDetailed(
     selfWeight: settings.selfWeight,
     samples: settings.samples,
     seed,
+    ...(input.priorGroups ? { groupOf: input.priorGroups } : {}),
     ...(options.transform ? { transform: options.transform } : {}),
   });
   return { report: assembleReport(frame, input, influence), input, influence };

@@ -2,7 +2,9 @@
  * @module build-attention-input
  * The attention layer's one entry for analysis: ledger snapshot → signals (collect-signals) →
  * the compressed sparse row count matrix C of DESIGN.md §4 step 3 (signal weights summed per
- * ordered pair; rows by sorted member id, columns ascending, no diagonal), plus the structure the
+ * ordered pair; rows by sorted member id, columns ascending, no diagonal) with each row's Kish
+ * factor Σw/Σw² (Kish 1965, "Survey Sampling", Wiley: the effective sample size of
+ * weighted data is (Σw)²/Σw², so k_i·c_i signals of weight 1 carry the row's information), plus the structure the
  * influence code needs: closed groups of the β = 0 view and, when asked for and no labels exist,
  * seeded Louvain clusters on a graphology graph. C is summed straight into CSR with a counting
  * pass (common practice): going through graphology's per-signal edge updates was 20× slower at
@@ -14,7 +16,7 @@ import type { AnalysisSettings } from "../domain/settings.js";
 import { deriveSeed } from "../ports/rng.js";
 import { findClosedGroups } from "./closed-groups.js";
 import { collectSignals, type Signal } from "./collect-signals.js";
-import { louvainClusters } from "./louvain-clusters.js";
+import { type Clusters, louvainClusters } from "./louvain-clusters.js";
 
 /**
  * Builds the `AttentionInput` of `snapshot` at `settings.until`. The Louvain seed is
@@ -35,6 +37,8 @@ export function buildAttentionInput(
   const counts = countMatrixFromSignals(set.members, set.signals);
   const wantClusters = settings.clusters && set.labels.every((label) => label === null);
   const seed = options.seed ?? settings.seed ?? deriveSeed(snapshot.channel, settings.until);
+  // The prior's groups use a fixed Louvain seed, so the seed moves only the intervals.
+  const priorClusters = louvainClusters(counts, { seed: PRIOR_GROUP_SEED });
   return {
     counts,
     signals: set.count,
@@ -43,7 +47,24 @@ export function buildAttentionInput(
     named: set.named,
     labels: set.labels,
     clusters: wantClusters ? louvainClusters(counts, { seed }) : null,
+    priorGroups: priorGroupsOf(counts.members.length, priorClusters),
   };
+}
+
+/** Louvain seed of the prior's groups (fixed: the point estimate must not depend on `seed`). */
+export const PRIOR_GROUP_SEED = 1;
+
+/** Below this modularity a partition is treated as no group structure (common practice, ~0.3). */
+export const PRIOR_GROUP_MODULARITY = 0.3;
+
+/** Member → prior group: the Louvain clusters when their modularity is at least 0.3, else one group. */
+export function priorGroupsOf(n: number, clusters: Clusters | null): Int32Array {
+  const out = new Int32Array(n);
+  if (!clusters || !(clusters.modularity >= PRIOR_GROUP_MODULARITY)) return out;
+  clusters.groups.forEach((members, g) => {
+    for (const i of members) out[i] = g;
+  });
+  return out;
 }
 
 /**
@@ -83,8 +104,11 @@ export function countMatrixFromSignals(
   const rowPtr = new Int32Array(n + 1);
   const cols: number[] = [];
   const vals: number[] = [];
+  const kish = new Float64Array(n);
   for (let i = 0; i < n; i++) {
     const touched: number[] = [];
+    let sum = 0;
+    let squares = 0;
     for (let p = perRow[i]; p < perRow[i + 1]; p++) {
       const k = order[p];
       const j = to[k];
@@ -93,8 +117,12 @@ export function countMatrixFromSignals(
         seen[j] = 1;
         touched.push(j);
       }
-      scratch[j] += signals[k].weight;
+      const w = signals[k].weight;
+      scratch[j] += w;
+      sum += w;
+      squares += w * w;
     }
+    kish[i] = squares > 0 ? sum / squares : 1;
     touched.sort((a, b) => a - b);
     for (const j of touched) {
       if (scratch[j] > 0) {
@@ -111,5 +139,6 @@ export function countMatrixFromSignals(
     rowPtr,
     colIdx: Int32Array.from(cols),
     values: Float64Array.from(vals),
+    kish,
   };
 }

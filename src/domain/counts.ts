@@ -14,6 +14,11 @@ export interface CountMatrix {
   readonly colIdx: Int32Array;
   /** C_ij > 0 for each stored entry. */
   readonly values: Float64Array;
+  /**
+   * Kish factor k_i = Σw/Σw² of row i's signal weights (DESIGN.md §4.3): the effective counts are
+   * Ĉ_ij = k_i·C_ij. Absent: 1 for every row (whole counts).
+   */
+  readonly kish?: Float64Array;
 }
 
 /** A partition of member indices, e.g. closed groups or clusters. */
@@ -34,6 +39,12 @@ export interface AttentionInput {
   readonly named: readonly boolean[];
   /** Group label at `until` for each active member, or null. */
   readonly labels: readonly (string | null)[];
+  /**
+   * Member → prior group (DESIGN.md §4.4): seeded Louvain clusters of C + Cᵀ when their modularity
+   * is at least 0.3, else 0 for everyone. Each row's prior follows the attention its group gives.
+   * Absent: one group.
+   */
+  readonly priorGroups?: Int32Array;
   /** Louvain clusters on C + Cᵀ when requested and no labels exist; else null. */
   readonly clusters: { readonly groups: IndexGroups; readonly modularity: number } | null;
 }

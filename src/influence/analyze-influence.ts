@@ -1,32 +1,28 @@
 /**
  * @module analyze-influence
- * The numerical core every surface shares (DESIGN.md §4 steps 4–8): point attention rows, the
- * stationary vector, K posterior draws (each solve warm-started from the point estimate) and |λ2|.
+ * The numerical core every surface shares (DESIGN.md §4 steps 4–8, version 2): the prior toward
+ * the channel's attention profile (attention-prior), point attention rows, the stationary vector,
+ * K posterior draws on per-draw random streams (posterior-draws) and |λ2|.
  * An optional row transform (the what-if cap) is applied to the point rows and to every drawn row
  * set, so a what-if and its baseline use the same draws and compare pairwise.
  */
 import type { CountMatrix } from "../domain/counts.js";
-import { createSeededRng } from "../ports/rng.js";
-import { type AttentionRows, pointAttentionRows } from "./attention-rows.js";
-import { createGammaSampler } from "./gamma-sampler.js";
-import { createDrawBuffer, drawIntoBuffer } from "./posterior-draws.js";
+import { type Background, buildAttentionPrior, pointRowsFromPrior } from "./attention-prior.js";
+import type { AttentionRows } from "./attention-rows.js";
+import { drawPlan, drawShares, posteriorMethod } from "./posterior-draws.js";
 import { secondEigenvalue } from "./second-eigenvalue.js";
 import { stationaryVector } from "./stationary-vector.js";
 
-/**
- * Draws are solved to 1e-8 in L1 (the point estimate to 1e-12, DESIGN.md §4.5): interval ends
- * are quantiles over draws that differ from each other by 1e-2 or more, and are reported to 6
- * decimals, so 1e-8 leaves them unchanged while saving about a third of the solve time.
- */
-const DRAW_TOLERANCE = 1e-8;
-
 export interface InfluenceOptions {
-  readonly background: number;
+  /** "auto" (prior strength learnt per row) or a fixed strength α ≥ 0. */
+  readonly background: Background;
   readonly selfWeight: number;
   readonly samples: number;
   readonly seed: number;
   /** Applied to every attention row set before solving (e.g. the what-if cap). */
   readonly transform?: (rows: AttentionRows) => AttentionRows;
+  /** Member → group whose attention profile is the member's prior (default: one group). */
+  readonly groupOf?: Int32Array;
 }
 
 export interface InfluenceResult {
@@ -40,6 +36,10 @@ export interface InfluenceResult {
   readonly effectiveVoicesDraws: Float64Array;
   /** |λ2| of the point T. */
   readonly secondEigenvalue: number;
+  /** Median prior strength α over rows (`settings.priorStrength`). */
+  readonly priorStrength: number;
+  /** How the prior part of each row is drawn (`settings.posterior`). */
+  readonly posterior: "exact" | "stick-breaking";
 }
 
 /** 1 / Σ s_i²: Kish's effective sample size of the consensus (DESIGN.md §1, effective voices). */
@@ -50,29 +50,26 @@ export function effectiveVoicesOf(shares: ArrayLike<number>): number {
 }
 
 export function analyzeInfluence(counts: CountMatrix, options: InfluenceOptions): InfluenceResult {
-  const identity = (rows: AttentionRows): AttentionRows => rows;
-  const transform = options.transform ?? identity;
-  const rows = transform(pointAttentionRows(counts, options.background));
+  const prior = buildAttentionPrior(counts, options.background, options.groupOf);
+  const rows0 = pointRowsFromPrior(counts, prior);
+  const rows = options.transform ? options.transform(rows0) : rows0;
   const point = stationaryVector(rows, { selfWeight: options.selfWeight }).vector;
-  const gamma = createGammaSampler(createSeededRng(options.seed));
-  const buffer = createDrawBuffer(counts);
+  const plan = drawPlan(counts, prior, {
+    selfWeight: options.selfWeight,
+    seed: options.seed,
+    start: point,
+  });
+  const range = drawShares(plan, 0, options.samples, options.transform);
+  const n = prior.n;
   const draws: Float64Array[] = [];
-  const effectiveVoicesDraws = new Float64Array(options.samples);
-  for (let k = 0; k < options.samples; k++) {
-    const drawn = transform(drawIntoBuffer(counts, options.background, gamma, buffer));
-    const s = stationaryVector(drawn, {
-      selfWeight: options.selfWeight,
-      start: point,
-      tolerance: DRAW_TOLERANCE,
-    }).vector;
-    draws.push(s);
-    effectiveVoicesDraws[k] = effectiveVoicesOf(s);
-  }
+  for (let k = 0; k < options.samples; k++) draws.push(range.shares.subarray(k * n, (k + 1) * n));
   return {
     rows,
     shares: point,
     draws,
-    effectiveVoicesDraws,
+    effectiveVoicesDraws: range.effectiveVoices,
     secondEigenvalue: secondEigenvalue(rows, options.selfWeight, point),
+    priorStrength: prior.priorStrength,
+    posterior: posteriorMethod(n),
   };
 }

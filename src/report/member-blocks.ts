@@ -172,6 +172,14 @@ export function settingsRows(settings: ChannelSettings): FigureRow[] {
       value: `${settings.minMembers}`,
       detail: "fewest active members before any figure is shown",
     },
+    {
+      label: "background",
+      value: `${settings.background}`,
+      detail:
+        settings.background === "auto"
+          ? "with few replies from someone, we assume they listen as the channel does; how strongly is learnt from the replies"
+          : "how many signals' worth we assume someone with few replies listens as the channel does",
+    },
   ];
 }
 

@@ -24,7 +24,10 @@ interface SliceCell {
   readonly n: number;
   readonly ratio: number;
   readonly channels: number;
-  /** Measured on the current model (v1, DESIGN §4 version 1 background β = 1), seed 1. */
+  /**
+   * Measured on the current model (v2, DESIGN §4 version 2, `background auto`), seed 1, on
+   * 2026-12-02 (v1 values before: 216/240, 164/192 and 20/24, 216/240, 234/320 and 13/16).
+   */
   readonly coverage: number;
   readonly leaderInside: number | null;
   readonly notes: number | null;
@@ -40,7 +43,7 @@ const RECORDED: readonly SliceCell[] = [
     n: 20,
     ratio: 15,
     channels: 12,
-    coverage: 216 / 240,
+    coverage: 219 / 240,
     leaderInside: null,
     notes: null,
     falseNotes: 0,
@@ -51,8 +54,8 @@ const RECORDED: readonly SliceCell[] = [
     n: 8,
     ratio: 15,
     channels: 24,
-    coverage: 164 / 192,
-    leaderInside: 20 / 24,
+    coverage: 167 / 192,
+    leaderInside: 22 / 24,
     notes: 1,
     falseNotes: null,
   },
@@ -62,7 +65,7 @@ const RECORDED: readonly SliceCell[] = [
     n: 20,
     ratio: 15,
     channels: 12,
-    coverage: 216 / 240,
+    coverage: 218 / 240,
     leaderInside: null,
     notes: null,
     falseNotes: 0,
@@ -73,8 +76,8 @@ const RECORDED: readonly SliceCell[] = [
     n: 20,
     ratio: 5,
     channels: 16,
-    coverage: 234 / 320,
-    leaderInside: 13 / 16,
+    coverage: 270 / 320,
+    leaderInside: 15 / 16,
     notes: null,
     falseNotes: 0,
   },

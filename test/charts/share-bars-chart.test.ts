@@ -75,7 +75,9 @@ describe("share bars chart", () => {
     expect(influence.length).toBe(6);
     expect(svg.match(/<rect class="share"/g)?.length).toBe(influence.length);
     influence.forEach((e, k) => {
-      expect(svg).toContain(`${percent(e.share)} (${percentRange(e.low, e.high)})`);
+      // The SVG escapes "<" (as in "<1%") as &lt;.
+      const shown = `${percent(e.share)} (${percentRange(e.low, e.high)})`.replaceAll("<", "&lt;");
+      expect(svg).toContain(shown);
       const label = e.named ? e.member : `member ${k + 1}`;
       expect(svg).toContain(`>${label}</text>`);
     });

@@ -129,6 +129,8 @@ describe("plumbline CLI", () => {
     [["analyze"], "ARG_MISSING", "usage: plumbline analyze"],
     [["analyze", demoLogPath, "--window", "0"], "ARG_BAD_VALUE", "whole number from 7 to 365"],
     [["analyze", demoLogPath, "--self-weight", "1"], "ARG_BAD_VALUE", "below 1"],
+    [["analyze", demoLogPath, "--background", "-1"], "ARG_BAD_VALUE", "or auto"],
+    [["analyze", demoLogPath, "--background", "foo"], "ARG_BAD_VALUE", "or auto"],
     [["analyze", demoLogPath, "--threshold", "high"], "ARG_BAD_VALUE", "0.05"],
     [["analyze", demoLogPath, "--frobnicate"], "ARG_UNKNOWN", "unknown flag --frobnicate"],
     [["analyze", demoLogPath, "--until", "yesterday"], "ARG_BAD_VALUE", "ISO 8601"],

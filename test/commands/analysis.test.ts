@@ -1,9 +1,9 @@
 /**
  * `check`, `compare`, `whatif cap`, `group`, `explain` and `help` through `handleCommand`, on
  * small invented channels. Figures are checked against a closed form: for mutual, equal attention
- * (symmetric counts C) with background β, the stationary vector is s_i = (c_i + β) / (Σ C + nβ),
- * by reversibility of a random walk on a weighted undirected graph (Levin, Peres & Wilmer, Markov
- * Chains and Mixing Times, 2nd ed. 2017, §1.6, detailed balance; from memory).
+ * (symmetric counts C) with no prior (`set background 0`), the stationary vector is
+ * s_i = c_i / Σ C, by reversibility of a random walk on a weighted undirected graph (Levin, Peres
+ * & Wilmer, Markov Chains and Mixing Times, 2nd ed. 2017, §1.6, detailed balance; from memory).
  */
 import { describe, expect, it } from "vitest";
 import { CAUTIONS_FULL } from "../../src/report/cautions.js";
@@ -28,15 +28,16 @@ async function ringChannel() {
     await mentions(r.store, { from: v, to: u, times: w, at: T0 + DAY + k++ * 3_600_000 });
   }
   await r.run("UBOSS", "set halflife 0");
+  await r.run("UBOSS", "set background 0");
   return r;
 }
 
 describe("check", () => {
   it("matches the closed form on a symmetric ring", async () => {
     const r = await ringChannel();
-    // Degrees: ANA 9, BO 5, CY 3, DEE 5, ELI 8; Σ C = 30, n β = 5.
-    const shares = [10, 6, 4, 6, 9].map((x) => x / 35);
-    const voices = 1 / shares.reduce((s, x) => s + x * x, 0); // 1225 / 269 ≈ 4.55
+    // Degrees: ANA 9, BO 5, CY 3, DEE 5, ELI 8; Σ C = 30.
+    const shares = [9, 5, 3, 5, 8].map((x) => x / 30);
+    const voices = 1 / shares.reduce((s, x) => s + x * x, 0); // 900 / 204 ≈ 4.41
     const text = (await r.run("UBO", "check")).message.text;
     expect(text).toMatch(/Active members\s+5\s+\(30 replies and mentions\)/);
     expect(text).toContain(`Effective voices  ${voices.toFixed(1)} of 5`);
@@ -199,6 +200,8 @@ describe("help, unknown input and explain", () => {
       "Line",
       "Digest",
       "Note",
+      "we assume they listen as the channel does",
+      "What an interval promises",
       "independent opinions",
       "Silence is not agreement",
       "rough proxy",

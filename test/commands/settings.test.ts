@@ -40,6 +40,9 @@ describe("set: accepted values", () => {
     ["notes off", { notes: "off" }],
     ["minmembers 3", { minMembers: 3 }],
     ["minmembers 50", { minMembers: 50 }],
+    ["background auto", { background: "auto" }],
+    ["background 0", { background: 0 }],
+    ["background 2.5", { background: 2.5 }],
   ])("set %s", async (text, change) => {
     const r = await runner();
     const response = await r.run("UBOSS", `set ${text}`);
@@ -83,6 +86,8 @@ describe("set: a missing value or a misspelt key gets that setting's usage", () 
 
 describe("set: bad values are refused with the allowed range, and nothing changes", () => {
   it.each([
+    ["background -1", "from 0 to 1000"],
+    ["background foo", "from 0 to 1000"],
     ["window 3", "from 7 to 90"],
     ["window 91", "from 7 to 90"],
     ["window 14.5", "from 7 to 90"],

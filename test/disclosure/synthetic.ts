@@ -79,6 +79,8 @@ export function syntheticReport(members: readonly SyntheticMember[]): AnalysisRe
       replyWeight: 1,
       mentionWeight: 1,
       background: 1,
+      priorStrength: 1,
+      posterior: "exact",
       selfWeight: 0.5,
       samples: 400,
       interval: 0.9,

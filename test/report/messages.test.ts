@@ -1,7 +1,7 @@
 /**
  * The digest, note, how-to-read and help messages built from reports of invented channels.
- * Figures are checked against the closed form for mutual equal attention with background β:
- * s_i = (c_i + β) / (Σ C + nβ), by reversibility (Levin, Peres & Wilmer, Markov Chains and Mixing
+ * Figures are checked against the closed form for mutual equal attention with no prior (β = 0):
+ * s_i = c_i / Σ C, by reversibility (Levin, Peres & Wilmer, Markov Chains and Mixing
  * Times, 2nd ed. 2017, §1.6, detailed balance; from memory).
  */
 import { describe, expect, it } from "vitest";
@@ -20,6 +20,7 @@ import { mentionEvents, snapshotOf } from "./log-builders.js";
 const exact: AnalysisSettings = {
   ...DEFAULT_SETTINGS,
   halfLifeDays: 0,
+  background: 0,
   samples: 200,
   seed: 11,
   clusters: false,
@@ -41,9 +42,9 @@ function starReport(consent: "named" | "counted" = "counted") {
 describe("digestMessage", () => {
   it("gives the headline figures of the closed form, and the text is the blocks rendered", () => {
     const report = starReport();
-    // c_hub = 30, c_leaf = 6 + 2 = 8; Σ C = 70; n = 6, β = 1: s_hub = 31/76, s_leaf = 9/76.
-    const hub = 31 / 76;
-    const leaf = 9 / 76;
+    // c_hub = 30, c_leaf = 6 + 2 = 8; Σ C = 70; β = 0: s_hub = 30/70, s_leaf = 8/70.
+    const hub = 30 / 70;
+    const leaf = 8 / 70;
     const voices = 1 / (hub * hub + 5 * leaf * leaf);
     const message = digestMessage({ report, previous: null, policy: { namesOn: false } });
     expect(message.text).toBe(renderText(message.blocks));
@@ -76,7 +77,7 @@ describe("digestMessage", () => {
     const text = digestMessage({ report, previous: even, policy: { namesOn: false } }).text;
     const now = report.effectiveVoices?.value ?? 0;
     expect(text).toContain(`effective voices −${(5 - now).toFixed(1)} (5.0 → ${now.toFixed(1)})`);
-    expect(text).toContain(`(20% → ${Math.round((31 / 76) * 100)}%)`);
+    expect(text).toContain(`(20% → ${Math.round((30 / 70) * 100)}%)`);
   });
 
   it("with too little data, says how many more members and signals are needed", () => {

@@ -193,7 +193,10 @@ export function attentionMapData(args: {
     })),
     edges: attentionEdges({
       input: args.input,
-      background: report.settings.background,
+      background:
+        typeof report.settings.background === "number"
+          ? report.settings.background
+          : (report.settings.priorStrength ?? 0),
       shown: shown.map((e) => e.member),
       minWeight: MAP_MIN_WEIGHT,
       maxEdges: MAP_MAX_ARROWS,
