@@ -210,7 +210,12 @@ describe("help, unknown input and explain", () => {
     }
     for (const caution of CAUTIONS_FULL) expect(text).toContain(caution);
     const more = (await r.run("UBO", "explain more")).message.text;
-    for (const term of ["DeGroot", "stationary vector", "listen as the channel does", "Self-weight"]) {
+    for (const term of [
+      "DeGroot",
+      "stationary vector",
+      "learnt from the replies themselves",
+      "Self-weight",
+    ]) {
       expect(text).not.toContain(term);
       expect(more).toContain(term);
     }
