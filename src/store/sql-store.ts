@@ -12,6 +12,7 @@ import type {
   ClaimKey,
   ClaimRequest,
   EraseCounts,
+  MissReason,
   PostClaim,
   PurgeCounts,
   PurgeCutoffs,
@@ -28,7 +29,15 @@ import {
 } from "./member-key.js";
 import { LATEST_SCHEMA_VERSION, pendingMigrations } from "./migrations.js";
 import { buildSnapshot, compareStrings, isConsentLevel, snapshotId } from "./snapshot.js";
-import { completeClaim, insertClaim, markMissed, readClaim } from "./sql-claims.js";
+import {
+  beginClaimPost,
+  completeClaim,
+  insertClaim,
+  insertMiss,
+  markMissed,
+  readClaim,
+  releaseClaimPost,
+} from "./sql-claims.js";
 import type { SqlConnection, SqlDriver } from "./sql-driver.js";
 import { eraseChannelRows, eraseMemberRows, purgeRows } from "./sql-erase.js";
 import { type RekeyOptions, rekeyRows } from "./sql-rekey.js";
@@ -270,6 +279,19 @@ export class SqlStore implements Store {
   claimPost(request: ClaimRequest): Promise<boolean> {
     const member = request.member ? this.memberKey(request.member) : null;
     return this.write((conn) => insertClaim(conn, request, member));
+  }
+
+  beginPost(key: ClaimKey & { claimedBy: string; now: number; leaseMs: number }): Promise<boolean> {
+    return this.write((conn) => beginClaimPost(conn, key));
+  }
+
+  releasePost(key: ClaimKey & { claimedBy: string }): Promise<boolean> {
+    return this.write((conn) => releaseClaimPost(conn, key));
+  }
+
+  recordMiss(request: ClaimRequest & { reason: MissReason }): Promise<boolean> {
+    const member = request.member ? this.memberKey(request.member) : null;
+    return this.write((conn) => insertMiss(conn, request, member));
   }
 
   completePost(key: ClaimKey & { claimedBy: string; platformMessageId: string }): Promise<boolean> {
