@@ -6,7 +6,9 @@
  * Kit rendering) pointed at the bench's loopback fake. Chart images are not rendered (their PNG
  * step would measure resvg, not the scheduler). Every SQL statement is counted by wrapping
  * `pg.Client.prototype.query`. Twice a second it prints one JSON status line to stdout
- * (peak RSS, statements, posts); SIGTERM prints a last one and exits.
+ * (peak RSS, statements, posts); SIGTERM prints a last one and exits. It waits, once ready, for a
+ * line on stdin before its first pass, so the burst is timed from the due minute with every replica
+ * already running (as in production), not from process start-up.
  *
  * Environment: BURST_SCHEMA, BURST_REPLICA, BURST_LEASE_MS, BURST_SLACK_URL, BURST_BASE (the
  * simulated epoch ms at process start), BURST_ID_KEY, DATABASE_URL.
@@ -40,7 +42,7 @@ const originalQuery = pg.Client.prototype.query;
 
 const replicaId = env("BURST_REPLICA");
 const leaseMs = Number(env("BURST_LEASE_MS"));
-const startedReal = Date.now();
+let startedReal = Date.now();
 const base = Number(env("BURST_BASE"));
 const clock: Clock = { now: () => base + (Date.now() - startedReal) };
 
@@ -107,6 +109,10 @@ const status = () =>
       missed,
     })}\n`,
   );
+process.stdout.write(`${JSON.stringify({ replica: replicaId, ready: true })}\n`);
+await new Promise<void>((resolve) => process.stdin.once("data", () => resolve()));
+process.stdin.pause();
+startedReal = Date.now();
 const statusTimer = setInterval(status, 500);
 
 let stopping = false;

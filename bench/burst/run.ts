@@ -56,6 +56,7 @@ const benchStart = Date.now();
 
 interface ReplicaStatus {
   replica: string;
+  ready?: boolean;
   maxRssKb: number;
   statements: number;
   posted: number;
@@ -134,7 +135,7 @@ function startReplica(id: string, slackUrl: string, statuses: Map<string, Replic
       BURST_BASE: String(BASE),
       BURST_ID_KEY: ID_KEY,
     },
-    stdio: ["ignore", "pipe", "inherit"],
+    stdio: ["pipe", "pipe", "inherit"],
   });
   let buffered = "";
   child.stdout?.on("data", (chunk: Buffer) => {
@@ -171,8 +172,13 @@ async function runOnce(
   slack.reset();
   const statuses = new Map<string, ReplicaStatus>();
   const ids = Array.from({ length: replicas }, (_, i) => `r${i + 1}`);
-  const t0 = Date.now();
   const children = ids.map((id) => startReplica(id, slack.url, statuses));
+  // Every replica up and connected before the due minute, as in production; then all go at once.
+  while (ids.some((id) => statuses.get(id) === undefined) && Date.now() < benchStart + capMs) {
+    await sleep(100);
+  }
+  const t0 = Date.now();
+  for (const child of children) child.stdin?.end("go\n");
   let killAt: number | null = null;
   let orphaned: string[] = [];
   let complete = false;

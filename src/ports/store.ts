@@ -198,10 +198,12 @@ export interface Store {
   getClaim(key: ClaimKey): Promise<PostClaim | null>;
   /**
    * Marks as missed, and returns: "posting" claims whose lease ended before `now` (reason
-   * "outcome unknown"), and "claimed" claims nobody took over within one more lease (reason
-   * "not taken over", e.g. a note hour every replica has passed).
+   * "outcome unknown"), and "claimed" claims whose lease ended before `abandonedBefore` (reason
+   * "not taken over", e.g. a note hour every replica has passed); without it, none of those.
    */
-  markMissedClaims(now: number): Promise<PostClaim[]>;
+  markMissedClaims(now: number, abandonedBefore?: number): Promise<PostClaim[]>;
+  /** "claimed" claims of `kind` whose lease ended before `now` (takeover candidates), sorted. */
+  expiredClaims(now: number, kind: string): Promise<PostClaim[]>;
 
   /** Deletes every row naming the member (by platform id) in the channel. */
   eraseMember(channel: string, platformId: string): Promise<EraseCounts>;

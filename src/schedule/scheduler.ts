@@ -37,6 +37,8 @@ export class Scheduler {
   /** Per channel, the UTC hour whose note this replica has evaluated. */
   private readonly noteHours = new Map<string, number>();
   private timer: ReturnType<typeof setInterval> | null = null;
+  /** When this replica last looked for expired digest claims to take over. */
+  private lastSweep = Number.NEGATIVE_INFINITY;
   private running: Promise<void> | null = null;
 
   constructor(deps: SchedulerDeps) {
@@ -68,12 +70,35 @@ export class Scheduler {
         continue;
       }
       await this.runDigests(channel, settings, at, report);
+      if (this.deps.clock.now() - this.lastSweep >= this.leaseMs / 4) await this.takeOver(report);
       await this.runNote(channel, settings, at, report);
     }
-    for (const claim of await this.deps.store.markMissedClaims(this.deps.clock.now())) {
+    await this.takeOver(report);
+    const now = this.deps.clock.now();
+    for (const claim of await this.deps.store.markMissedClaims(now, now - LATE_LIMIT_MS)) {
       this.missed(report, claim, missReasonOf(claim));
     }
     return report;
+  }
+
+  /**
+   * Takes over digest claims whose holder's lease ended with nothing sent (a dead replica's
+   * jobs), between channels of a long pass too, so they are done soon after the lease ends.
+   */
+  private async takeOver(report: TickReport): Promise<void> {
+    const now = this.deps.clock.now();
+    this.lastSweep = now;
+    const expired = await this.deps.store.expiredClaims(now, "digest");
+    for (const channel of new Set(expired.map((c) => c.channel))) {
+      let settings: ChannelSettings;
+      try {
+        settings = await this.deps.readSettings(channel);
+      } catch (error) {
+        this.fail(report, { channel, kind: "settings", period: null }, error);
+        continue;
+      }
+      await this.runDigests(channel, settings, this.deps.clock.now(), report);
+    }
   }
 
   /** This replica's order over the channels: by SHA-256 of (replica id, channel). */

@@ -41,7 +41,7 @@ export interface MissedEntry {
    * "too-late": found 24 h or more after its slot (or still unsent then, e.g. rate limited);
    * "outcome-unknown": the holder started the platform call and never finished within its lease
    * (the post may have arrived, so it is not tried again); "not-taken-over": a claim whose holder
-   * stopped while composing and that no replica took over within a further lease.
+   * stopped while composing and that no replica took over within 24 h of its lease ending.
    */
   readonly reason: "too-late" | "outcome-unknown" | "not-taken-over";
 }

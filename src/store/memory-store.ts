@@ -196,11 +196,20 @@ class MemoryStore implements Store {
     return this.claims.get(claimId(key)) ?? null;
   }
 
-  async markMissedClaims(now: number): Promise<PostClaim[]> {
+  async expiredClaims(now: number, kind: string): Promise<PostClaim[]> {
+    return [...this.claims.values()]
+      .filter((c) => c.status === "claimed" && c.kind === kind && c.leaseUntil < now)
+      .sort((a, b) => compareStrings(claimId(a), claimId(b)));
+  }
+
+  async markMissedClaims(now: number, abandonedBefore?: number): Promise<PostClaim[]> {
     const missed: PostClaim[] = [];
     for (const [id, claim] of this.claims) {
       const unknown = claim.status === "posting" && claim.leaseUntil < now;
-      const abandoned = claim.status === "claimed" && 2 * claim.leaseUntil - claim.claimedAt < now;
+      const abandoned =
+        abandonedBefore !== undefined &&
+        claim.status === "claimed" &&
+        claim.leaseUntil < abandonedBefore;
       if (unknown || abandoned) {
         const updated: PostClaim = {
           ...claim,

@@ -112,14 +112,30 @@ export async function readClaim(conn: SqlConnection, key: ClaimKey): Promise<Pos
   return rows.length === 0 ? null : toClaim(rows[0]);
 }
 
-export async function markMissed(conn: SqlConnection, now: number): Promise<PostClaim[]> {
+export async function listExpired(
+  conn: SqlConnection,
+  now: number,
+  kind: string,
+): Promise<PostClaim[]> {
+  const rows = await conn.all(
+    "SELECT * FROM post_claim WHERE status = 'claimed' AND kind = ? AND lease_until < ?",
+    [kind, now],
+  );
+  return rows.map(toClaim).sort((a, b) => compareStrings(claimOrder(a), claimOrder(b)));
+}
+
+export async function markMissed(
+  conn: SqlConnection,
+  now: number,
+  abandonedBefore: number | undefined,
+): Promise<PostClaim[]> {
   const rows = await conn.all(
     `UPDATE post_claim SET status = 'missed', platform_message_id = CASE WHEN status = 'posting'
        THEN '${missedMarker("outcome unknown")}' ELSE '${missedMarker("not taken over")}' END
      WHERE (status = 'posting' AND lease_until < ?)
-       OR (status = 'claimed' AND 2 * lease_until - claimed_at < ?)
+       OR (status = 'claimed' AND lease_until < ?)
      RETURNING *`,
-    [now, now],
+    [now, abandonedBefore ?? Number.MIN_SAFE_INTEGER],
   );
   return rows.map(toClaim).sort((a, b) => compareStrings(claimOrder(a), claimOrder(b)));
 }

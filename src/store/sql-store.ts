@@ -34,6 +34,7 @@ import {
   completeClaim,
   insertClaim,
   insertMiss,
+  listExpired,
   markMissed,
   readClaim,
   releaseClaimPost,
@@ -302,8 +303,12 @@ export class SqlStore implements Store {
     return this.read((conn) => readClaim(conn, key));
   }
 
-  markMissedClaims(now: number): Promise<PostClaim[]> {
-    return this.write((conn) => markMissed(conn, now));
+  markMissedClaims(now: number, abandonedBefore?: number): Promise<PostClaim[]> {
+    return this.write((conn) => markMissed(conn, now, abandonedBefore));
+  }
+
+  expiredClaims(now: number, kind: string): Promise<PostClaim[]> {
+    return this.read((conn) => listExpired(conn, now, kind));
   }
 
   async eraseMember(channel: string, platformId: string): Promise<EraseCounts> {

@@ -428,11 +428,21 @@ export function storeContract(name: string, makeStore: () => Promise<StoreFixtur
       await store.claimPost({ ...req, period: "stale", claimedBy: "r1" });
       expect(await store.recordMiss({ ...late, period: "stale", now: T0 + 60_000 })).toBe(false);
       expect(await store.recordMiss({ ...late, period: "stale", now: T0 + 60_001 })).toBe(true);
-      // A claimed row nobody took over: missed after its lease and one more.
+      // A claimed row nobody took over: listed as expired, missed once its lease ended before
+      // the caller's cut-off.
       await store.claimPost({ ...req, period: "note", kind: "note", claimedBy: "r1" });
-      expect(await store.markMissedClaims(T0 + 120_000)).toEqual([]);
+      expect(await store.expiredClaims(T0 + 60_000, "note")).toEqual([]);
+      expect((await store.expiredClaims(T0 + 60_001, "note")).map((m) => m.period)).toEqual([
+        "note",
+      ]);
+      expect(await store.expiredClaims(T0 + 60_001, "digest")).toEqual([]);
+      expect(await store.markMissedClaims(T0 + DAY_MS)).toEqual([]);
+      expect(await store.markMissedClaims(T0 + DAY_MS, T0 + 60_000)).toEqual([]);
       expect(
-        (await store.markMissedClaims(T0 + 120_001)).map((m) => [m.period, m.platformMessageId]),
+        (await store.markMissedClaims(T0 + DAY_MS, T0 + 60_001)).map((m) => [
+          m.period,
+          m.platformMessageId,
+        ]),
       ).toEqual([["note", missedMarker("not taken over")]]);
     });
 
