@@ -184,20 +184,27 @@ async function runOnce(
   let complete = false;
   const deadline = benchStart + capMs;
   while (Date.now() < deadline) {
-    await sleep(250);
+    await sleep(kill && killAt === null ? 20 : 250);
     const [row] = await query<{ final: string }>(
       "SELECT count(*) AS final FROM post_claim WHERE kind = 'digest' AND period = $1 AND status IN ('posted', 'missed')",
       [PERIOD],
     );
     const final = Number(row.final);
     if (kill && killAt === null && final >= channels.length / 2) {
-      children[1].kill("SIGKILL");
-      killAt = Date.now();
+      // Half-way, and at a moment the victim holds a job (composing or posting): SIGKILL it.
       const held = await query<{ channel: string }>(
         "SELECT channel FROM post_claim WHERE claimed_by = $1 AND status IN ('claimed', 'posting')",
         [ids[1]],
       );
-      orphaned = held.map((h) => h.channel);
+      if (held.length > 0) {
+        children[1].kill("SIGKILL");
+        killAt = Date.now();
+        const after = await query<{ channel: string }>(
+          "SELECT channel FROM post_claim WHERE claimed_by = $1 AND status IN ('claimed', 'posting')",
+          [ids[1]],
+        );
+        orphaned = after.map((h) => h.channel);
+      }
     }
     if (final >= channels.length) {
       complete = true;
