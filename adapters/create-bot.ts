@@ -27,7 +27,7 @@ import { PSEUDONYM_PREFIX, type Store } from "../src/ports/store.js";
 import { digestMessage } from "../src/report/digest-blocks.js";
 import { noteMessage } from "../src/report/note-blocks.js";
 import { Scheduler } from "../src/schedule/scheduler.js";
-import type { NoteComposition } from "../src/schedule/scheduler-deps.js";
+import type { NoteComposition, SchedulerDeps } from "../src/schedule/scheduler-deps.js";
 
 export interface BotOptions {
   readonly store: Store;
@@ -39,6 +39,8 @@ export interface BotOptions {
   readonly replicaId: string;
   /** Signed report-page links (the served page); absent in the console. */
   readonly reportLink?: (channel: string, reader: string) => string;
+  /** Claim lease, look-back and the platform's "certainly not sent" test for the scheduler. */
+  readonly scheduling?: Pick<SchedulerDeps, "leaseMs" | "lookbackMs" | "notSent">;
 }
 
 export interface Bot {
@@ -139,6 +141,7 @@ export function createBot(options: BotOptions): Bot {
     composeDigest,
     composeNote,
     sendToFacilitators,
+    ...options.scheduling,
   });
 
   return {

@@ -86,8 +86,7 @@ export class ConsoleSession {
     // "too-late" misses are slots from before the session (the scheduler looks back a week); a
     // console has no downtime, so only a lease that ran out is worth showing.
     for (const miss of report.missed) {
-      if (miss.reason === "lease-expired")
-        this.say(`(a ${miss.kind} due ${miss.period} was missed)`);
+      if (miss.reason !== "too-late") this.say(`(a ${miss.kind} due ${miss.period} was missed)`);
     }
     for (const failure of report.failed)
       this.say(`(posting a ${failure.kind} failed: ${failure.error})`);

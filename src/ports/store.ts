@@ -79,7 +79,20 @@ export interface ChannelInfo {
   readonly lastEventAt: number | null;
 }
 
-export type ClaimStatus = "claimed" | "posted" | "missed";
+/**
+ * "claimed": composing, nothing sent yet (another replica may take it over once its lease ends);
+ * "posting": the platform call is under way (never taken over: the outcome may be a post);
+ * "posted" and "missed" are final.
+ */
+export type ClaimStatus = "claimed" | "posting" | "posted" | "missed";
+
+/** Why a claim was recorded as missed; kept in `platformMessageId` as `(missed: <reason>)`. */
+export type MissReason = "outcome unknown" | "too late" | "not taken over";
+
+/** The message id recorded for a claim missed for `reason`. */
+export function missedMarker(reason: MissReason): string {
+  return `(missed: ${reason})`;
+}
 
 /** One post claim: the row that lets exactly one replica post a digest or note. */
 export interface PostClaim {
@@ -165,13 +178,38 @@ export interface Store {
    */
   facilitatorPlatformIds(channel: string): Promise<string[]>;
 
-  /** Inserts the claim (ON CONFLICT DO NOTHING); true only for the one caller that inserted it. */
+  /**
+   * Inserts the claim (ON CONFLICT DO NOTHING), or takes over a "claimed" one whose lease ended
+   * before `now` (its holder died before sending anything); true only for the one caller that
+   * inserted or took it over.
+   */
   claimPost(request: ClaimRequest): Promise<boolean>;
+  /**
+   * Moves the caller's "claimed" claim to "posting" just before the platform call, with a fresh
+   * lease; false when the claim is no longer the caller's (taken over) or not "claimed".
+   */
+  beginPost(key: ClaimKey & { claimedBy: string; now: number; leaseMs: number }): Promise<boolean>;
+  /**
+   * Moves the caller's "posting" claim back to "claimed" (lease kept) when the platform refused
+   * the call without taking it (e.g. rate limited), so it may be tried again; false if not held.
+   */
+  releasePost(key: ClaimKey & { claimedBy: string }): Promise<boolean>;
+  /**
+   * Records a slot as missed for `reason` (inserting the row, or turning a "claimed" one whose
+   * lease ended before `now` into a miss); true when this call recorded it.
+   */
+  recordMiss(request: ClaimRequest & { reason: MissReason }): Promise<boolean>;
   /** Marks a claim posted by its holder with the platform's message id; false if not held. */
   completePost(key: ClaimKey & { claimedBy: string; platformMessageId: string }): Promise<boolean>;
   getClaim(key: ClaimKey): Promise<PostClaim | null>;
-  /** Marks unfinished claims whose lease ended before `now` as missed and returns them. */
-  markMissedClaims(now: number): Promise<PostClaim[]>;
+  /**
+   * Marks as missed, and returns: "posting" claims whose lease ended before `now` (reason
+   * "outcome unknown"), and "claimed" claims whose lease ended before `abandonedBefore` (reason
+   * "not taken over", e.g. a note hour every replica has passed); without it, none of those.
+   */
+  markMissedClaims(now: number, abandonedBefore?: number): Promise<PostClaim[]>;
+  /** "claimed" claims of `kind` whose lease ended before `now` (takeover candidates), sorted. */
+  expiredClaims(now: number, kind: string): Promise<PostClaim[]>;
 
   /** Deletes every row naming the member (by platform id) in the channel. */
   eraseMember(channel: string, platformId: string): Promise<EraseCounts>;

@@ -47,6 +47,12 @@ export interface SchedulerDeps {
   readonly composeNote: (channel: string, now: number) => Promise<NoteComposition | null>;
   /** Delivers a note to the channel's facilitators privately. */
   readonly sendToFacilitators?: (channel: string, message: OutgoingMessage) => Promise<void>;
+  /**
+   * True when a failed platform call certainly did not reach the channel (e.g. a 429 after the
+   * send queue's waits): the claim goes back to "claimed" and a later pass tries again, until
+   * the slot is 24 h late. Any other failure leaves the outcome unknown and is never retried.
+   */
+  readonly notSent?: (error: unknown) => boolean;
   readonly leaseMs?: number;
   readonly lookbackMs?: number;
 }

@@ -1,19 +1,23 @@
 /**
  * @module scheduler
  * Decides when digests and balance notes are posted and which replica posts them (DESIGN.md §8).
- * Each pass (`tick`) walks the registered channels: a digest slot (the channel's weekday and time in
- * its own zone) that has come round is claimed through the store's claim row, keyed (channel,
- * "digest", local slot date-time), composed and posted by the one replica whose insert won; notes
- * are evaluated once per UTC hour and claimed per hour the same way. The poster records the
- * platform's message id; a claim left unfinished past its lease is logged as a miss and never
- * posted again, because the first post may have reached the channel (the platforms offer no
- * idempotency key). A slot found 24 hours or more late is claimed as missed, not posted. Time comes
- * from the injected clock; only `start` uses real timers.
+ * Each pass (`tick`) walks the registered channels in an order of its own (channels sorted by a
+ * hash of replica id and channel), so replicas sharing one database start on different channels
+ * and split a burst of due digests between them instead of queueing on the same claims. A digest
+ * slot (the channel's weekday and time in its own zone) that has come round is claimed through the
+ * store's claim row, keyed (channel, "digest", local slot date-time), in two phases: "claimed"
+ * while composing (nothing sent; a replica that dies here is taken over by another once its lease
+ * ends) and "posting" from just before the platform call. A "posting" claim left unfinished past
+ * its lease is logged as a miss ("outcome unknown") and never posted again, because the first post
+ * may have reached the channel (the platforms offer no idempotency key). A slot found 24 hours or
+ * more late is recorded as missed, not posted. Notes are evaluated once per UTC hour and claimed
+ * per hour the same way. Time comes from the injected clock; only `start` uses real timers.
  */
+import { createHash } from "node:crypto";
 import type { ChannelSettings } from "../domain/channel-settings.js";
 import { isPlumblineError, PlumblineError } from "../domain/errors.js";
 import type { OutgoingMessage } from "../ports/chat-platform.js";
-import type { ClaimKey } from "../ports/store.js";
+import type { ClaimKey, PostClaim } from "../ports/store.js";
 import { digestSlotsBetween } from "./digest-slots.js";
 import {
   DEFAULT_LEASE_MS,
@@ -24,7 +28,7 @@ import {
   type SchedulerDeps,
 } from "./scheduler-deps.js";
 import { digestPeriod, HOUR_MS, hourStart, notePeriod } from "./slot-period.js";
-import type { PostKind, SkipReason, SlotRef, TickReport } from "./tick-report.js";
+import type { MissedEntry, PostKind, SkipReason, SlotRef, TickReport } from "./tick-report.js";
 
 export class Scheduler {
   private readonly deps: SchedulerDeps;
@@ -33,6 +37,8 @@ export class Scheduler {
   /** Per channel, the UTC hour whose note this replica has evaluated. */
   private readonly noteHours = new Map<string, number>();
   private timer: ReturnType<typeof setInterval> | null = null;
+  /** When this replica last looked for expired digest claims to take over. */
+  private lastSweep = Number.NEGATIVE_INFINITY;
   private running: Promise<void> | null = null;
 
   constructor(deps: SchedulerDeps) {
@@ -54,8 +60,7 @@ export class Scheduler {
   async tick(): Promise<TickReport> {
     const at = this.deps.clock.now();
     const report: TickReport = { at, posted: [], skipped: [], missed: [], failed: [] };
-    const tooLate = new Set<string>();
-    const channels = (await this.deps.store.listChannels()).map((c) => c.channel).sort();
+    const channels = this.walkOrder((await this.deps.store.listChannels()).map((c) => c.channel));
     for (const channel of channels) {
       let settings: ChannelSettings;
       try {
@@ -64,16 +69,56 @@ export class Scheduler {
         this.fail(report, { channel, kind: "settings", period: null }, error);
         continue;
       }
-      await this.runDigests(channel, settings, at, report, tooLate);
+      await this.runDigests(channel, settings, at, report);
+      if (this.deps.clock.now() - this.lastSweep >= this.leaseMs / 4) await this.takeOver(report);
       await this.runNote(channel, settings, at, report);
     }
-    for (const claim of await this.deps.store.markMissedClaims(this.deps.clock.now())) {
-      const reason = tooLate.has(claimId(claim)) ? "too-late" : "lease-expired";
-      const entry = { ...pick(claim), claimedBy: claim.claimedBy, reason } as const;
-      report.missed.push(entry);
-      this.deps.logger.warn({ ...entry, replica: this.deps.replicaId }, "scheduled post missed");
+    await this.takeOver(report);
+    const now = this.deps.clock.now();
+    for (const claim of await this.deps.store.markMissedClaims(now, now - LATE_LIMIT_MS)) {
+      this.missed(report, claim, missReasonOf(claim));
     }
     return report;
+  }
+
+  /**
+   * Takes over digest claims whose holder's lease ended with nothing sent (a dead replica's
+   * jobs), between channels of a long pass too, so they are done soon after the lease ends.
+   */
+  private async takeOver(report: TickReport): Promise<void> {
+    const now = this.deps.clock.now();
+    this.lastSweep = now;
+    const expired = await this.deps.store.expiredClaims(now, "digest");
+    for (const channel of new Set(expired.map((c) => c.channel))) {
+      let settings: ChannelSettings;
+      try {
+        settings = await this.deps.readSettings(channel);
+      } catch (error) {
+        this.fail(report, { channel, kind: "settings", period: null }, error);
+        continue;
+      }
+      await this.runDigests(channel, settings, this.deps.clock.now(), report);
+    }
+  }
+
+  /** This replica's order over the channels: by SHA-256 of (replica id, channel). */
+  private walkOrder(channels: string[]): string[] {
+    const rank = (channel: string) =>
+      createHash("sha256").update(`${this.deps.replicaId}\u0000${channel}`).digest("hex");
+    return channels
+      .map((channel) => ({ channel, rank: rank(channel) }))
+      .sort((a, b) => (a.rank < b.rank ? -1 : a.rank > b.rank ? 1 : 0))
+      .map((c) => c.channel);
+  }
+
+  private missed(
+    report: TickReport,
+    claim: Pick<PostClaim, "channel" | "kind" | "period" | "claimedBy">,
+    reason: MissedEntry["reason"],
+  ): void {
+    const entry = { ...pick(claim), claimedBy: claim.claimedBy, reason };
+    report.missed.push(entry);
+    this.deps.logger.warn({ ...entry, replica: this.deps.replicaId }, "scheduled post missed");
   }
 
   /** Runs `tick` now and every `intervalMs` (at most an hour) until `stop`. */
@@ -120,7 +165,6 @@ export class Scheduler {
     settings: ChannelSettings,
     at: number,
     report: TickReport,
-    tooLate: Set<string>,
   ): Promise<void> {
     if (settings.digest === "off") return;
     let slots: number[];
@@ -139,10 +183,18 @@ export class Scheduler {
       const period = digestPeriod(slotAt, settings.timezone);
       const ref: SlotRef = { channel, kind: "digest", period };
       try {
-        if ((await this.deps.store.getClaim(ref)) !== null) continue;
+        const held = await this.deps.store.getClaim(ref);
+        // Only an absent claim, or a "claimed" one whose holder's lease has ended, is open.
+        if (held !== null && !(held.status === "claimed" && held.leaseUntil < at)) continue;
         if (at - slotAt >= LATE_LIMIT_MS) {
-          // A lease that ends before the claim began: markMissedClaims records it in this pass.
-          if (await this.claim(ref, -1, null)) tooLate.add(claimId(ref));
+          const recorded = await this.deps.store.recordMiss({
+            ...ref,
+            claimedBy: this.deps.replicaId,
+            now: this.deps.clock.now(),
+            leaseMs: 0,
+            reason: "too late",
+          });
+          if (recorded) this.missed(report, { ...ref, claimedBy: this.deps.replicaId }, "too-late");
         } else if (await this.claim(ref, this.leaseMs, null)) {
           await this.deliver(report, ref, slotAt, "channel", () =>
             this.deps.composeDigest(channel, slotAt),
@@ -200,12 +252,29 @@ export class Scheduler {
       this.skip(report, ref, "nothing-to-post");
       return false;
     }
+    const holder = { ...ref, claimedBy: this.deps.replicaId };
+    const now = this.deps.clock.now();
+    if (!(await this.deps.store.beginPost({ ...holder, now, leaseMs: this.leaseMs }))) {
+      // Our lease ended while composing and another replica took the slot over: it posts.
+      this.deps.logger.warn(
+        { ...ref, replica: this.deps.replicaId },
+        "claim taken over; not posting",
+      );
+      this.skip(report, ref, "claimed-elsewhere");
+      return false;
+    }
     let messageId: string;
-    if (audience === "facilitators" && this.deps.sendToFacilitators !== undefined) {
-      await this.deps.sendToFacilitators(ref.channel, message);
-      messageId = FACILITATORS_DELIVERY;
-    } else {
-      messageId = (await this.deps.platform.postToChannel(ref.channel, message)).messageId;
+    try {
+      if (audience === "facilitators" && this.deps.sendToFacilitators !== undefined) {
+        await this.deps.sendToFacilitators(ref.channel, message);
+        messageId = FACILITATORS_DELIVERY;
+      } else {
+        messageId = (await this.deps.platform.postToChannel(ref.channel, message)).messageId;
+      }
+    } catch (error) {
+      // Refused without being taken (e.g. rate limited): open again for a later pass.
+      if (this.deps.notSent?.(error) === true) await this.deps.store.releasePost(holder);
+      throw error;
     }
     if (!(await this.complete(ref, messageId))) {
       this.deps.logger.warn({ ...ref, messageId }, "posted, but the claim was no longer ours");
@@ -254,8 +323,10 @@ export class Scheduler {
   }
 }
 
-function claimId(key: ClaimKey): string {
-  return `${key.channel}\u0000${key.kind}\u0000${key.period}`;
+function missReasonOf(claim: PostClaim): MissedEntry["reason"] {
+  return claim.platformMessageId?.includes("outcome unknown") === true
+    ? "outcome-unknown"
+    : "not-taken-over";
 }
 
 function pick(key: ClaimKey): ClaimKey {

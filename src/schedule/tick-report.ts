@@ -37,8 +37,13 @@ export interface MissedEntry {
   readonly kind: string;
   readonly period: string;
   readonly claimedBy: string;
-  /** "too-late": found 24 h or more after its slot; "lease-expired": a claimer never finished. */
-  readonly reason: "too-late" | "lease-expired";
+  /**
+   * "too-late": found 24 h or more after its slot (or still unsent then, e.g. rate limited);
+   * "outcome-unknown": the holder started the platform call and never finished within its lease
+   * (the post may have arrived, so it is not tried again); "not-taken-over": a claim whose holder
+   * stopped while composing and that no replica took over within 24 h of its lease ending.
+   */
+  readonly reason: "too-late" | "outcome-unknown" | "not-taken-over";
 }
 
 export interface FailedEntry {

@@ -11,12 +11,14 @@ import type {
   ClaimKey,
   ClaimRequest,
   EraseCounts,
+  MissReason,
   PostClaim,
   PurgeCounts,
   PurgeCutoffs,
   Store,
   StoreTx,
 } from "../ports/store.js";
+import { missedMarker } from "../ports/store.js";
 import { createMemberKeyer, type MemberKeyer, randomSecret } from "./member-key.js";
 import { emptyChannel, type MemoryState, memoryTx } from "./memory-tx.js";
 import { buildSnapshot, compareStrings, snapshotId } from "./snapshot.js";
@@ -118,7 +120,10 @@ class MemoryStore implements Store {
 
   async claimPost(request: ClaimRequest): Promise<boolean> {
     const id = claimId(request);
-    if (this.claims.has(id)) return false;
+    const held = this.claims.get(id);
+    if (held !== undefined && !(held.status === "claimed" && held.leaseUntil < request.now)) {
+      return false;
+    }
     this.claims.set(id, {
       channel: request.channel,
       kind: request.kind,
@@ -129,6 +134,50 @@ class MemoryStore implements Store {
       status: "claimed",
       platformMessageId: null,
       member: request.member ? this.memberKey(request.member) : null,
+    });
+    return true;
+  }
+
+  async beginPost(
+    key: ClaimKey & { claimedBy: string; now: number; leaseMs: number },
+  ): Promise<boolean> {
+    const claim = this.claims.get(claimId(key));
+    if (claim === undefined || claim.claimedBy !== key.claimedBy || claim.status !== "claimed") {
+      return false;
+    }
+    this.claims.set(claimId(key), {
+      ...claim,
+      status: "posting",
+      leaseUntil: key.now + key.leaseMs,
+    });
+    return true;
+  }
+
+  async releasePost(key: ClaimKey & { claimedBy: string }): Promise<boolean> {
+    const claim = this.claims.get(claimId(key));
+    if (claim === undefined || claim.claimedBy !== key.claimedBy || claim.status !== "posting") {
+      return false;
+    }
+    this.claims.set(claimId(key), { ...claim, status: "claimed" });
+    return true;
+  }
+
+  async recordMiss(request: ClaimRequest & { reason: MissReason }): Promise<boolean> {
+    const id = claimId(request);
+    const held = this.claims.get(id);
+    if (held !== undefined && !(held.status === "claimed" && held.leaseUntil < request.now)) {
+      return false;
+    }
+    this.claims.set(id, {
+      channel: request.channel,
+      kind: request.kind,
+      period: request.period,
+      claimedBy: request.claimedBy,
+      claimedAt: held?.claimedAt ?? request.now,
+      leaseUntil: held?.leaseUntil ?? request.now,
+      status: "missed",
+      platformMessageId: missedMarker(request.reason),
+      member: held?.member ?? (request.member ? this.memberKey(request.member) : null),
     });
     return true;
   }
@@ -152,11 +201,26 @@ class MemoryStore implements Store {
     return this.claims.get(claimId(key)) ?? null;
   }
 
-  async markMissedClaims(now: number): Promise<PostClaim[]> {
+  async expiredClaims(now: number, kind: string): Promise<PostClaim[]> {
+    return [...this.claims.values()]
+      .filter((c) => c.status === "claimed" && c.kind === kind && c.leaseUntil < now)
+      .sort((a, b) => compareStrings(claimId(a), claimId(b)));
+  }
+
+  async markMissedClaims(now: number, abandonedBefore?: number): Promise<PostClaim[]> {
     const missed: PostClaim[] = [];
     for (const [id, claim] of this.claims) {
-      if (claim.status === "claimed" && claim.leaseUntil < now) {
-        const updated: PostClaim = { ...claim, status: "missed" };
+      const unknown = claim.status === "posting" && claim.leaseUntil < now;
+      const abandoned =
+        abandonedBefore !== undefined &&
+        claim.status === "claimed" &&
+        claim.leaseUntil < abandonedBefore;
+      if (unknown || abandoned) {
+        const updated: PostClaim = {
+          ...claim,
+          status: "missed",
+          platformMessageId: missedMarker(unknown ? "outcome unknown" : "not taken over"),
+        };
         this.claims.set(id, updated);
         missed.push(updated);
       }

@@ -12,6 +12,7 @@ import type {
   ClaimKey,
   ClaimRequest,
   EraseCounts,
+  MissReason,
   PostClaim,
   PurgeCounts,
   PurgeCutoffs,
@@ -28,7 +29,16 @@ import {
 } from "./member-key.js";
 import { LATEST_SCHEMA_VERSION, pendingMigrations } from "./migrations.js";
 import { buildSnapshot, compareStrings, isConsentLevel, snapshotId } from "./snapshot.js";
-import { completeClaim, insertClaim, markMissed, readClaim } from "./sql-claims.js";
+import {
+  beginClaimPost,
+  completeClaim,
+  insertClaim,
+  insertMiss,
+  listExpired,
+  markMissed,
+  readClaim,
+  releaseClaimPost,
+} from "./sql-claims.js";
 import type { SqlConnection, SqlDriver } from "./sql-driver.js";
 import { eraseChannelRows, eraseMemberRows, purgeRows } from "./sql-erase.js";
 import { type RekeyOptions, rekeyRows } from "./sql-rekey.js";
@@ -283,6 +293,19 @@ export class SqlStore implements Store {
     return this.write((conn) => insertClaim(conn, request, member));
   }
 
+  beginPost(key: ClaimKey & { claimedBy: string; now: number; leaseMs: number }): Promise<boolean> {
+    return this.write((conn) => beginClaimPost(conn, key));
+  }
+
+  releasePost(key: ClaimKey & { claimedBy: string }): Promise<boolean> {
+    return this.write((conn) => releaseClaimPost(conn, key));
+  }
+
+  recordMiss(request: ClaimRequest & { reason: MissReason }): Promise<boolean> {
+    const member = request.member ? this.memberKey(request.member) : null;
+    return this.write((conn) => insertMiss(conn, request, member));
+  }
+
   completePost(key: ClaimKey & { claimedBy: string; platformMessageId: string }): Promise<boolean> {
     return this.write((conn) => completeClaim(conn, key));
   }
@@ -291,8 +314,12 @@ export class SqlStore implements Store {
     return this.read((conn) => readClaim(conn, key));
   }
 
-  markMissedClaims(now: number): Promise<PostClaim[]> {
-    return this.write((conn) => markMissed(conn, now));
+  markMissedClaims(now: number, abandonedBefore?: number): Promise<PostClaim[]> {
+    return this.write((conn) => markMissed(conn, now, abandonedBefore));
+  }
+
+  expiredClaims(now: number, kind: string): Promise<PostClaim[]> {
+    return this.read((conn) => listExpired(conn, now, kind));
   }
 
   async eraseMember(channel: string, platformId: string): Promise<EraseCounts> {

@@ -28,6 +28,8 @@ export class RecordingPlatform implements ChatPlatform {
   readonly name = "recording";
   readonly posts: RecordedPost[] = [];
   hang = false;
+  /** Errors thrown by the next posts, one per post (nothing recorded). */
+  failures: unknown[] = [];
   /** Resolves each time a post starts. */
   onPost: (() => void) | null = null;
   private next = 0;
@@ -40,6 +42,7 @@ export class RecordingPlatform implements ChatPlatform {
   async postToChannel(channel: string, message: OutgoingMessage): Promise<{ messageId: string }> {
     this.onPost?.();
     if (this.hang) return new Promise(() => {});
+    if (this.failures.length > 0) throw this.failures.shift();
     this.next++;
     const messageId = `${this.prefix}-${this.next}`;
     this.posts.push({ channel, text: message.text, at: this.clock.now(), messageId });

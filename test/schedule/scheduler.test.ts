@@ -13,6 +13,7 @@ import {
   HOUR,
   MINUTE,
   makeScheduler,
+  message,
   RecordingPlatform,
   runUntil,
   settingsMap,
@@ -139,7 +140,7 @@ describe("digests on each channel's schedule", () => {
     expect([...a.platform.posts, ...b.platform.posts]).toEqual([]);
     expect(
       await store.getClaim({ channel: "c1", kind: "digest", period: "2026-11-02T09:00[UTC]" }),
-    ).toMatchObject({ status: "missed", platformMessageId: null });
+    ).toMatchObject({ status: "missed", platformMessageId: "(missed: too late)" });
   });
 
   it("records a slot with nothing to post as done, not as a miss", async () => {
@@ -164,8 +165,33 @@ describe("digests on each channel's schedule", () => {
     expect(claim).toMatchObject({ status: "posted", platformMessageId: NOTHING_POSTED });
   });
 
-  it("never retries a failed post: the claim becomes a miss after its lease", async () => {
+  it("never retries a failed post: the claim becomes a miss (outcome unknown) after its lease", async () => {
     const store = await memoryStore("c1", "c2");
+    const slot = Date.UTC(2026, 10, 2, 9, 0);
+    const clock = new ManualClock(slot);
+    const { scheduler, platform } = makeScheduler({
+      store,
+      clock,
+      leaseMs: 10 * MINUTE,
+      readSettings: settingsMap({ c2: { timezone: "Not/AZone" } }),
+    });
+    platform.failures.push(new Error("socket hang up"));
+    const first = await scheduler.tick();
+    expect([...first.failed].sort((x, y) => x.channel.localeCompare(y.channel))).toEqual([
+      { channel: "c1", kind: "digest", period: "2026-11-02T09:00[UTC]", error: "Error" },
+      { channel: "c2", kind: "digest", period: null, error: "SETTING_BAD_VALUE" },
+    ]);
+    clock.advance(10 * MINUTE + 1);
+    const second = await scheduler.tick();
+    expect(second.missed).toMatchObject([
+      { channel: "c1", reason: "outcome-unknown", claimedBy: "r1" },
+    ]);
+    await runUntil(clock, slot + DAY_MS, 10 * MINUTE, () => scheduler.tick());
+    expect(platform.posts).toEqual([]);
+  });
+
+  it("retries a compose failure after its lease (nothing was sent) and posts once", async () => {
+    const store = await memoryStore("c1");
     const slot = Date.UTC(2026, 10, 2, 9, 0);
     const clock = new ManualClock(slot);
     let calls = 0;
@@ -173,25 +199,53 @@ describe("digests on each channel's schedule", () => {
       store,
       clock,
       leaseMs: 10 * MINUTE,
-      readSettings: settingsMap({ c2: { timezone: "Not/AZone" } }),
       composeDigest: async () => {
         calls++;
-        throw new Error("analysis failed");
+        if (calls === 1) throw new Error("analysis failed");
+        return message("digest");
       },
     });
-    const first = await scheduler.tick();
-    expect(first.failed).toEqual([
-      { channel: "c1", kind: "digest", period: "2026-11-02T09:00[UTC]", error: "Error" },
-      { channel: "c2", kind: "digest", period: null, error: "SETTING_BAD_VALUE" },
-    ]);
+    expect((await scheduler.tick()).failed).toMatchObject([{ channel: "c1", error: "Error" }]);
+    clock.advance(10 * MINUTE);
+    expect((await scheduler.tick()).posted).toEqual([]);
+    clock.advance(1);
+    expect((await scheduler.tick()).posted).toMatchObject([{ channel: "c1" }]);
+    await runUntil(clock, slot + 2 * DAY_MS, 10 * MINUTE, () => scheduler.tick());
+    expect(calls).toBe(2);
+    expect(platform.posts).toHaveLength(1);
+  });
+
+  it("tries a post the platform refused unsent (rate limited) again, until 24 h late", async () => {
+    const store = await memoryStore("c1", "c2");
+    const slot = Date.UTC(2026, 10, 2, 9, 0);
+    const clock = new ManualClock(slot);
+    const limited = Object.assign(new Error("rate limited"), { unsent: true });
+    const { scheduler, platform } = makeScheduler({
+      store,
+      clock,
+      leaseMs: 10 * MINUTE,
+      notSent: (error) => (error as { unsent?: boolean }).unsent === true,
+      readSettings: settingsMap({ c2: { digest: { weekday: 1, time: "10:00" } } }),
+    });
+    platform.failures.push(limited, limited);
+    // c1 (09:00) fails twice: first pass, then the next pass after its lease.
+    await scheduler.tick();
     clock.advance(10 * MINUTE + 1);
-    const second = await scheduler.tick();
-    expect(second.missed).toMatchObject([
-      { channel: "c1", reason: "lease-expired", claimedBy: "r1" },
-    ]);
-    await runUntil(clock, slot + DAY_MS, 10 * MINUTE, () => scheduler.tick());
-    expect(calls).toBe(1);
-    expect(platform.posts).toEqual([]);
+    await scheduler.tick();
+    clock.advance(10 * MINUTE + 1);
+    expect((await scheduler.tick()).posted).toMatchObject([{ channel: "c1" }]);
+    expect(platform.posts.map((p) => p.channel)).toEqual(["c1"]);
+    // c2 (10:00) is refused on every try until it is 24 h late: then recorded as missed.
+    platform.failures.push(...Array.from({ length: 200 }, () => limited));
+    const missed: string[] = [];
+    await runUntil(clock, slot + 2 * DAY_MS, 10 * MINUTE, async () => {
+      missed.push(...(await scheduler.tick()).missed.map((m) => `${m.channel} ${m.reason}`));
+    });
+    expect(missed).toEqual(["c2 too-late"]);
+    expect(platform.posts.map((p) => p.channel)).toEqual(["c1"]);
+    expect(
+      await store.getClaim({ channel: "c2", kind: "digest", period: "2026-11-02T10:00[UTC]" }),
+    ).toMatchObject({ status: "missed", platformMessageId: "(missed: too late)" });
   });
 });
 
@@ -261,7 +315,7 @@ describe("several replicas on one SQLite file", () => {
     expect(replicas.flatMap((r) => r.platform.posts)).toHaveLength(3);
   });
 
-  it("logs a claim whose replica died before completing as a miss, and nobody posts it", async () => {
+  it("logs a claim whose replica died while posting as a miss, and nobody posts it", async () => {
     const [storeA, storeB] = await sharedSqlite();
     const slot = Date.UTC(2026, 10, 2, 9, 0);
     const clock = new ManualClock(slot);
@@ -284,7 +338,7 @@ describe("several replicas on one SQLite file", () => {
         kind: "digest",
         period: "2026-11-02T09:00[UTC]",
         claimedBy: "dead",
-        reason: "lease-expired",
+        reason: "outcome-unknown",
       },
     ]);
     expect(
@@ -297,7 +351,68 @@ describe("several replicas on one SQLite file", () => {
     expect(live.platform.posts).toEqual([]);
     expect(
       await storeB.getClaim({ channel: "c1", kind: "digest", period: "2026-11-02T09:00[UTC]" }),
-    ).toMatchObject({ status: "missed", claimedBy: "dead", platformMessageId: null });
+    ).toMatchObject({
+      status: "missed",
+      claimedBy: "dead",
+      platformMessageId: "(missed: outcome unknown)",
+    });
+  });
+
+  it("takes over a claim whose replica died while composing, once its lease ends", async () => {
+    const [storeA, storeB] = await sharedSqlite();
+    const slot = Date.UTC(2026, 10, 2, 9, 0);
+    const clock = new ManualClock(slot);
+    let wake: (() => void) | null = null;
+    const started = new Promise<void>((resolve) => {
+      wake = resolve;
+    });
+    let resume: (() => void) | null = null;
+    const dead = makeScheduler({
+      store: storeA,
+      clock,
+      replicaId: "dead",
+      leaseMs: 15 * MINUTE,
+      composeDigest: async () => {
+        wake?.();
+        await new Promise<void>((resolve) => {
+          resume = resolve;
+        });
+        return message("late digest");
+      },
+    });
+    const deadPass = dead.scheduler.tick();
+    await started;
+    const live = makeScheduler({ store: storeB, clock, replicaId: "live", leaseMs: 15 * MINUTE });
+    clock.advance(15 * MINUTE);
+    expect((await live.scheduler.tick()).posted).toEqual([]);
+    clock.advance(1);
+    const report = await live.scheduler.tick();
+    expect(report.posted).toMatchObject([{ channel: "c1", period: "2026-11-02T09:00[UTC]" }]);
+    expect(report.missed).toEqual([]);
+    // The stalled replica wakes up with its digest composed: it must not post.
+    (resume as (() => void) | null)?.();
+    const late = await deadPass;
+    expect(late.skipped).toMatchObject([{ channel: "c1", reason: "claimed-elsewhere" }]);
+    expect(dead.platform.posts).toEqual([]);
+    expect(live.platform.posts).toHaveLength(1);
+    expect(
+      await storeA.getClaim({ channel: "c1", kind: "digest", period: "2026-11-02T09:00[UTC]" }),
+    ).toMatchObject({ status: "posted", claimedBy: "live" });
+  });
+
+  it("splits a burst between replicas: each walks the channels in its own order", async () => {
+    const channels = Array.from({ length: 60 }, (_, i) => `c${String(i).padStart(2, "0")}`);
+    const store = await memoryStore(...channels);
+    const slot = Date.UTC(2026, 10, 2, 9, 0);
+    const clock = new ManualClock(slot + MINUTE);
+    const replicas = ["a", "b", "c"].map((id) => makeScheduler({ store, clock, replicaId: id }));
+    const reports = await Promise.all(replicas.map((r) => r.scheduler.tick()));
+    const posted = reports.flatMap((r) => r.posted.map((p) => p.channel)).sort();
+    expect(posted).toEqual(channels);
+    for (const r of replicas) {
+      expect(r.platform.posts.length).toBeGreaterThan(0);
+      expect(r.platform.posts.length).toBeLessThanOrEqual(30);
+    }
   });
 });
 

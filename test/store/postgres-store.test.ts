@@ -14,6 +14,8 @@ describe.skipIf(!run)("PostgreSQL store", () => {
     const store = await openStore(PG_URL, { idKey: TEST_KEY, schema, createSchema: true });
     return {
       store,
+      openPeer: () => openStore(PG_URL, { idKey: TEST_KEY, schema }),
+      peerConcurrent: true,
       cleanup: async () => {
         await store.close();
         await dropSchema(schema);

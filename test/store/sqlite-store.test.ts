@@ -15,8 +15,13 @@ afterAll(() => rmSync(dir, { recursive: true, force: true }));
 let n = 0;
 
 storeContract("sqlite file", async () => {
-  const store = await openSqliteStore(join(dir, `contract-${n++}.db`), { idKey: TEST_KEY });
-  return { store, cleanup: () => store.close() };
+  const path = join(dir, `contract-${n++}.db`);
+  const store = await openSqliteStore(path, { idKey: TEST_KEY });
+  return {
+    store,
+    openPeer: () => openSqliteStore(path, { idKey: TEST_KEY }),
+    cleanup: () => store.close(),
+  };
 });
 
 storeContract("sqlite :memory:", async () => {

@@ -12,11 +12,19 @@ import { DAY_MS } from "../../src/domain/settings.js";
 import { eraseChannel, eraseWorkspace, leave } from "../../src/ingest/erase.js";
 import { ingest, ingestBatch } from "../../src/ingest/ingest.js";
 import { purge } from "../../src/ingest/purge.js";
-import type { Store } from "../../src/ports/store.js";
+import { missedMarker, type Store } from "../../src/ports/store.js";
 import { randomDeliveries } from "../ingest/random-events.js";
 
 export interface StoreFixture {
   readonly store: Store;
+  /** A second store on the same database (another replica); closed by the suite. */
+  readonly openPeer?: () => Promise<Store>;
+  /**
+   * Whether the peer may run calls at the same time as the store (PostgreSQL). Two SQLite
+   * connections in one thread cannot (better-sqlite3 is synchronous: one would wait on the other's
+   * transaction while holding the thread), so SQLite races within one store only.
+   */
+  readonly peerConcurrent?: boolean;
   readonly cleanup: () => Promise<void>;
 }
 
@@ -360,11 +368,125 @@ export function storeContract(name: string, makeStore: () => Promise<StoreFixtur
         claimedBy: holder,
         leaseUntil: T0 + 60_000,
       });
-      await store.claimPost({ ...req, period: "2026-W46", claimedBy: "r1" });
+      const w46 = { ...req, period: "2026-W46", claimedBy: "r1" };
+      await store.claimPost(w46);
+      expect(await store.beginPost({ ...w46, now: T0 + 1000, leaseMs: 60_000 })).toBe(true);
       expect(await store.markMissedClaims(T0 + 30_000)).toEqual([]);
-      const missed = await store.markMissedClaims(T0 + 60_001);
-      expect(missed.map((m) => [m.period, m.status])).toEqual([["2026-W46", "missed"]]);
-      expect(await store.markMissedClaims(T0 + 60_002)).toEqual([]);
+      const missed = await store.markMissedClaims(T0 + 61_001);
+      expect(missed.map((m) => [m.period, m.status, m.platformMessageId])).toEqual([
+        ["2026-W46", "missed", missedMarker("outcome unknown")],
+      ]);
+      expect(await store.markMissedClaims(T0 + 61_002)).toEqual([]);
+    });
+
+    it("lets another replica take over a claimed (unsent) job once its lease ends, never a posting one", async () => {
+      const peer = fixture.openPeer ? await fixture.openPeer() : store;
+      try {
+        const req = { channel: c, kind: "digest", period: "2026-W45", leaseMs: 60_000 };
+        expect(await store.claimPost({ ...req, claimedBy: "dead", now: T0 })).toBe(true);
+        expect(await peer.claimPost({ ...req, claimedBy: "r2", now: T0 + 60_000 })).toBe(false);
+        expect(await peer.claimPost({ ...req, claimedBy: "r2", now: T0 + 60_001 })).toBe(true);
+        expect(await store.getClaim(req)).toMatchObject({
+          status: "claimed",
+          claimedBy: "r2",
+          claimedAt: T0 + 60_001,
+          leaseUntil: T0 + 120_001,
+        });
+        // The old holder woke up: it may not start posting, nor complete.
+        expect(await store.beginPost({ ...req, claimedBy: "dead", now: T0 + 70_000 })).toBe(false);
+        expect(
+          await store.completePost({ ...req, claimedBy: "dead", platformMessageId: "x" }),
+        ).toBe(false);
+        expect(await peer.beginPost({ ...req, claimedBy: "r2", now: T0 + 70_000 })).toBe(true);
+        expect(await peer.beginPost({ ...req, claimedBy: "r2", now: T0 + 70_000 })).toBe(false);
+        expect(await store.getClaim(req)).toMatchObject({
+          status: "posting",
+          leaseUntil: T0 + 130_000,
+        });
+        // A posting claim is never taken over, even long after its lease.
+        expect(await store.claimPost({ ...req, claimedBy: "r3", now: T0 + 9 * DAY_MS })).toBe(
+          false,
+        );
+        expect(
+          await store.recordMiss({
+            ...req,
+            claimedBy: "r3",
+            now: T0 + 9 * DAY_MS,
+            reason: "too late",
+          }),
+        ).toBe(false);
+        // Refused by the platform without being taken: back to claimed, held by the same replica.
+        expect(await store.releasePost({ ...req, claimedBy: "r3" })).toBe(false);
+        expect(await peer.releasePost({ ...req, claimedBy: "r2" })).toBe(true);
+        expect(await store.getClaim(req)).toMatchObject({ status: "claimed", claimedBy: "r2" });
+        expect(await peer.completePost({ ...req, claimedBy: "r2", platformMessageId: "ts9" })).toBe(
+          true,
+        );
+        expect(await store.markMissedClaims(T0 + 9 * DAY_MS)).toEqual([]);
+      } finally {
+        if (peer !== store) await peer.close();
+      }
+    });
+
+    it("records a late slot as missed once, and an abandoned claim after a further lease", async () => {
+      const req = { channel: c, kind: "digest", leaseMs: 60_000, now: T0 };
+      const late = { ...req, period: "late", claimedBy: "r1", reason: "too late" as const };
+      expect(await store.recordMiss(late)).toBe(true);
+      expect(await store.recordMiss({ ...late, claimedBy: "r2" })).toBe(false);
+      expect(
+        await store.claimPost({ ...req, period: "late", claimedBy: "r2", now: T0 + DAY_MS }),
+      ).toBe(false);
+      expect(await store.getClaim({ ...req, period: "late" })).toMatchObject({
+        status: "missed",
+        claimedBy: "r1",
+        platformMessageId: missedMarker("too late"),
+      });
+      // An expired claimed row may be turned into a miss (still unsent when the slot is 24 h late).
+      await store.claimPost({ ...req, period: "stale", claimedBy: "r1" });
+      expect(await store.recordMiss({ ...late, period: "stale", now: T0 + 60_000 })).toBe(false);
+      expect(await store.recordMiss({ ...late, period: "stale", now: T0 + 60_001 })).toBe(true);
+      // A claimed row nobody took over: listed as expired, missed once its lease ended before
+      // the caller's cut-off.
+      await store.claimPost({ ...req, period: "note", kind: "note", claimedBy: "r1" });
+      expect(await store.expiredClaims(T0 + 60_000, "note")).toEqual([]);
+      expect((await store.expiredClaims(T0 + 60_001, "note")).map((m) => m.period)).toEqual([
+        "note",
+      ]);
+      expect(await store.expiredClaims(T0 + 60_001, "digest")).toEqual([]);
+      expect(await store.markMissedClaims(T0 + DAY_MS)).toEqual([]);
+      expect(await store.markMissedClaims(T0 + DAY_MS, T0 + 60_000)).toEqual([]);
+      expect(
+        (await store.markMissedClaims(T0 + DAY_MS, T0 + 60_001)).map((m) => [
+          m.period,
+          m.platformMessageId,
+        ]),
+      ).toEqual([["note", missedMarker("not taken over")]]);
+    });
+
+    it("gives an expired claim to exactly one of several replicas racing for it", async () => {
+      const peer = fixture.openPeer ? await fixture.openPeer() : store;
+      try {
+        const req = { channel: c, kind: "digest", leaseMs: 60_000 };
+        for (let round = 0; round < 5; round++) {
+          const period = `race-${round}`;
+          expect(await store.claimPost({ ...req, period, claimedBy: "dead", now: T0 })).toBe(true);
+          const wins = await Promise.all(
+            ["a", "b", "c", "d"].map((id, i) =>
+              (i % 2 === 1 && fixture.peerConcurrent === true ? peer : store).claimPost({
+                ...req,
+                period,
+                claimedBy: id,
+                now: T0 + 60_001 + i,
+              }),
+            ),
+          );
+          expect(wins.filter(Boolean)).toHaveLength(1);
+          const winner = ["a", "b", "c", "d"][wins.indexOf(true)];
+          expect(await peer.getClaim({ ...req, period })).toMatchObject({ claimedBy: winner });
+        }
+      } finally {
+        if (peer !== store) await peer.close();
+      }
     });
   });
 }

@@ -1,0 +1,366 @@
+/**
+ * @module burst/run
+ * `npm run bench:burst`: the Monday-morning burst (issue 17). N channels (default 1,000) of 20–200
+ * invented members each, with four weeks of seeded activity (bench/synthetic-channel.ts, three
+ * messages per member), all with the default digest (Monday 09:00 UTC), are stored in one
+ * PostgreSQL database under a schema of this run's own. Then, for 1, 2 and 3 replica processes and
+ * once more with 3 where one is SIGKILLed when half the digests are out, every replica starts at
+ * simulated Monday 09:00:30 and the run ends when every channel's claim is final. Slack is faked on
+ * loopback with its per-channel pacing (429 + Retry-After). Prints one table: time until the last
+ * digest, posts per (channel, period), misses with their reasons, each replica's share of posts,
+ * peak RSS, SQL statements per digest, and for the kill run how long the takeover took.
+ *
+ * Options: --channels N (default 1000), --lease S (claim lease in seconds, default 20),
+ * --cap S (time cap for all runs together, default 1500), --runs 1,2,3,3k (default all).
+ * The schema is dropped at the end, also after a failure or Ctrl-C.
+ */
+import { type ChildProcess, spawn } from "node:child_process";
+import { randomBytes } from "node:crypto";
+import { dirname, join } from "node:path";
+import { fileURLToPath } from "node:url";
+import pg from "pg";
+import { coreChannelId, parseCoreChannelId } from "../../adapters/slack/channel-ids.js";
+import { writeChannelSettings } from "../../src/commands/channel-settings-store.js";
+import { DEFAULT_CHANNEL_SETTINGS } from "../../src/domain/channel-settings.js";
+import { DAY_MS } from "../../src/domain/settings.js";
+import { ingestBatch } from "../../src/ingest/ingest.js";
+import { createSeededRng } from "../../src/ports/rng.js";
+import { openStore } from "../../src/store/open-store.js";
+import { syntheticChannel } from "../synthetic-channel.js";
+import { type FakeSlack, startFakeSlack } from "./fake-slack.js";
+
+const here = dirname(fileURLToPath(import.meta.url));
+const PG_URL = process.env.DATABASE_URL?.startsWith("postgres")
+  ? process.env.DATABASE_URL
+  : "postgres://postgres@127.0.0.1:5432/test";
+const ID_KEY = `burst-${randomBytes(16).toString("hex")}`;
+const TEAM = "T0BURST";
+/** Monday 30 November 2026, 09:00:30 UTC: every default digest fell due 30 s ago. */
+const BASE = Date.UTC(2026, 10, 30, 9, 0, 30);
+const PERIOD = "2026-11-30T09:00[UTC]";
+
+function option(name: string, fallback: string): string {
+  const i = process.argv.indexOf(`--${name}`);
+  return i >= 0 && process.argv[i + 1] !== undefined ? process.argv[i + 1] : fallback;
+}
+
+const channelsWanted = Number(option("channels", "1000"));
+const leaseMs = Number(option("lease", "20")) * 1000;
+const capMs = Number(option("cap", "1500")) * 1000;
+const runsWanted = option("runs", "1,2,3,3k").split(",");
+if (!(Number.isInteger(channelsWanted) && channelsWanted > 0 && leaseMs > 0 && capMs > 0)) {
+  throw new Error("--channels, --lease and --cap must be positive numbers");
+}
+const schema = `plumbline_burst_${process.pid}_${randomBytes(3).toString("hex")}`;
+const benchStart = Date.now();
+
+interface ReplicaStatus {
+  replica: string;
+  ready?: boolean;
+  maxRssKb: number;
+  statements: number;
+  posted: number;
+}
+
+interface RunResult {
+  label: string;
+  replicas: number;
+  complete: boolean;
+  firstDigestS: number;
+  lastDigestS: number;
+  postsMin: number;
+  postsMax: number;
+  doubles: number;
+  zeros: number;
+  misses: string;
+  shares: string;
+  maxShare: number;
+  rssMb: string;
+  statementsPerDigest: number;
+  refused: number;
+  takeover: string;
+}
+
+async function seed(channels: string[]): Promise<void> {
+  const store = await openStore(PG_URL, { idKey: ID_KEY, schema, createSchema: true });
+  try {
+    const rng = createSeededRng(17);
+    let events = 0;
+    for (const [i, channel] of channels.entries()) {
+      const members = 20 + Math.floor(rng.next() * 181);
+      const synthetic = syntheticChannel({
+        members,
+        messages: 3 * members,
+        seed: 1000 + i,
+        channel,
+        start: BASE - 28 * DAY_MS - 30_000,
+        days: 28,
+      });
+      await store.registerChannel(channel, TEAM);
+      await ingestBatch(
+        store,
+        synthetic.events.map((event, k) => ({ event, deliveryKey: `${channel}/${k}` })),
+        { batchSize: 2000, receivedAt: BASE - DAY_MS },
+      );
+      // Notes off: the burst is about digests (notes are evaluated hourly, not all at once).
+      await writeChannelSettings(store, channel, { ...DEFAULT_CHANNEL_SETTINGS, notes: "off" });
+      events += synthetic.events.length;
+    }
+    console.log(`seeded ${channels.length} channels, ${events} events, schema ${schema}`);
+  } finally {
+    await store.close();
+  }
+}
+
+async function query<T extends pg.QueryResultRow>(sql: string, params: unknown[] = []) {
+  const client = new pg.Client({ connectionString: PG_URL });
+  await client.connect();
+  try {
+    await client.query(`SET search_path TO ${schema}`);
+    return (await client.query<T>(sql, params)).rows;
+  } finally {
+    await client.end();
+  }
+}
+
+function startReplica(id: string, slackUrl: string, statuses: Map<string, ReplicaStatus>) {
+  const child = spawn(process.execPath, ["--import", "tsx", join(here, "replica.ts")], {
+    env: {
+      ...process.env,
+      DATABASE_URL: PG_URL,
+      BURST_SCHEMA: schema,
+      BURST_REPLICA: id,
+      BURST_LEASE_MS: String(leaseMs),
+      BURST_SLACK_URL: slackUrl,
+      BURST_BASE: String(BASE),
+      BURST_ID_KEY: ID_KEY,
+    },
+    stdio: ["pipe", "pipe", "inherit"],
+  });
+  let buffered = "";
+  child.stdout?.on("data", (chunk: Buffer) => {
+    buffered += chunk.toString("utf8");
+    const lines = buffered.split("\n");
+    buffered = lines.pop() ?? "";
+    for (const line of lines) {
+      try {
+        const s = JSON.parse(line) as ReplicaStatus;
+        statuses.set(s.replica, s);
+      } catch {
+        // not a status line
+      }
+    }
+  });
+  return child;
+}
+
+const sleep = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
+
+function exited(child: ChildProcess): Promise<void> {
+  if (child.exitCode !== null || child.signalCode !== null) return Promise.resolve();
+  return new Promise((resolve) => child.once("exit", () => resolve()));
+}
+
+async function runOnce(
+  label: string,
+  replicas: number,
+  kill: boolean,
+  channels: string[],
+  slack: FakeSlack,
+): Promise<RunResult> {
+  await query("DELETE FROM post_claim");
+  slack.reset();
+  const statuses = new Map<string, ReplicaStatus>();
+  const ids = Array.from({ length: replicas }, (_, i) => `r${i + 1}`);
+  const children = ids.map((id) => startReplica(id, slack.url, statuses));
+  // Every replica up and connected before the due minute, as in production; then all go at once.
+  while (ids.some((id) => statuses.get(id) === undefined) && Date.now() < benchStart + capMs) {
+    await sleep(100);
+  }
+  const t0 = Date.now();
+  for (const child of children) child.stdin?.end("go\n");
+  let killAt: number | null = null;
+  let orphaned: string[] = [];
+  let complete = false;
+  const deadline = benchStart + capMs;
+  while (Date.now() < deadline) {
+    await sleep(kill && killAt === null ? 20 : 250);
+    const [row] = await query<{ final: string }>(
+      "SELECT count(*) AS final FROM post_claim WHERE kind = 'digest' AND period = $1 AND status IN ('posted', 'missed')",
+      [PERIOD],
+    );
+    const final = Number(row.final);
+    if (kill && killAt === null && final >= channels.length / 2) {
+      // Half-way, and at a moment the victim holds a job (composing or posting): SIGKILL it.
+      const held = await query<{ channel: string }>(
+        "SELECT channel FROM post_claim WHERE claimed_by = $1 AND status IN ('claimed', 'posting')",
+        [ids[1]],
+      );
+      if (held.length > 0) {
+        children[1].kill("SIGKILL");
+        killAt = Date.now();
+        const after = await query<{ channel: string }>(
+          "SELECT channel FROM post_claim WHERE claimed_by = $1 AND status IN ('claimed', 'posting')",
+          [ids[1]],
+        );
+        orphaned = after.map((h) => h.channel);
+      }
+    }
+    if (final >= channels.length) {
+      complete = true;
+      break;
+    }
+  }
+  for (const child of children) if (child.exitCode === null) child.kill("SIGTERM");
+  await Promise.race([Promise.all(children.map(exited)), sleep(10_000)]);
+  for (const child of children) if (child.exitCode === null) child.kill("SIGKILL");
+
+  const counts = channels.map(
+    (c) => slack.posts.get(parseCoreChannelId(c)?.channel ?? "")?.length ?? 0,
+  );
+  const allTimes = [...slack.posts.values()].flat();
+  const lastPost = allTimes.length > 0 ? Math.max(...allTimes) : t0;
+  const byReplica = await query<{ claimed_by: string; n: string }>(
+    "SELECT claimed_by, count(*) AS n FROM post_claim WHERE kind = 'digest' AND status = 'posted' GROUP BY claimed_by ORDER BY claimed_by",
+  );
+  const missRows = await query<{ platform_message_id: string; n: string }>(
+    "SELECT platform_message_id, count(*) AS n FROM post_claim WHERE status = 'missed' GROUP BY platform_message_id",
+  );
+  const postedTotal = byReplica.reduce((s, r) => s + Number(r.n), 0);
+  const shares = byReplica.map((r) => ({ id: r.claimed_by, share: Number(r.n) / postedTotal }));
+  const statements = [...statuses.values()].reduce((s, r) => s + r.statements, 0);
+  let takeover = "";
+  if (kill) {
+    if (killAt === null) {
+      takeover = "not killed";
+    } else {
+      const rows = orphaned.length
+        ? await query<{ channel: string; status: string; claimed_by: string }>(
+            "SELECT channel, status, claimed_by FROM post_claim WHERE channel = ANY($1)",
+            [orphaned],
+          )
+        : [];
+      const times = rows
+        .map((r) => slack.posts.get(parseCoreChannelId(r.channel)?.channel ?? "")?.[0] ?? null)
+        .filter((t): t is number => t !== null && t >= (killAt ?? 0));
+      const lastTakeover = times.length > 0 ? (Math.max(...times) - killAt) / 1000 : 0;
+      const takenBy = rows.filter((r) => r.status === "posted" && r.claimed_by !== ids[1]).length;
+      takeover = `${orphaned.length} held at kill: ${takenBy} posted by others, last ${lastTakeover.toFixed(1)} s after kill (lease ${leaseMs / 1000} s); ${rows.filter((r) => r.status === "missed").length} missed`;
+    }
+  }
+  return {
+    label,
+    replicas,
+    complete,
+    firstDigestS: ((allTimes.length > 0 ? Math.min(...allTimes) : t0) - t0) / 1000,
+    lastDigestS: (lastPost - t0) / 1000,
+    postsMin: Math.min(...counts),
+    postsMax: Math.max(...counts),
+    doubles: counts.filter((n) => n > 1).length,
+    zeros: counts.filter((n) => n === 0).length,
+    misses:
+      missRows
+        .map((m) => `${m.n} ${m.platform_message_id.replace(/^\(missed: |\)$/g, "")}`)
+        .join(", ") || "none",
+    shares: shares.map((s) => `${s.id} ${(100 * s.share).toFixed(0)}%`).join(" "),
+    maxShare: Math.max(0, ...shares.map((s) => s.share)),
+    rssMb: ids.map((id) => `${((statuses.get(id)?.maxRssKb ?? 0) / 1024).toFixed(0)}`).join("/"),
+    statementsPerDigest: statements / channels.length,
+    refused: slack.refused(),
+    takeover,
+  };
+}
+
+function table(results: RunResult[]): string {
+  const head = [
+    "run",
+    "done",
+    "first digest s",
+    "last digest s",
+    "posts/channel min–max",
+    "doubles",
+    "no post",
+    "misses (reason)",
+    "share of posts",
+    "peak RSS MB",
+    "SQL/digest",
+    "429s",
+  ];
+  const rows = results.map((r) => [
+    r.label,
+    r.complete ? "yes" : "CAP",
+    r.firstDigestS.toFixed(1),
+    r.lastDigestS.toFixed(1),
+    `${r.postsMin}–${r.postsMax}`,
+    String(r.doubles),
+    String(r.zeros),
+    r.misses,
+    r.shares,
+    r.rssMb,
+    r.statementsPerDigest.toFixed(1),
+    String(r.refused),
+  ]);
+  const widths = head.map((h, i) => Math.max(h.length, ...rows.map((row) => row[i].length)));
+  const line = (cells: string[]) => cells.map((c, i) => c.padEnd(widths[i])).join(" | ");
+  return [line(head), widths.map((w) => "-".repeat(w)).join("-|-"), ...rows.map(line)].join("\n");
+}
+
+async function main(): Promise<void> {
+  const channels = Array.from({ length: channelsWanted }, (_, i) =>
+    coreChannelId(TEAM, `C${i.toString(36).toUpperCase().padStart(6, "0")}`),
+  );
+  const slack = await startFakeSlack(1000);
+  try {
+    await seed(channels);
+    const results: RunResult[] = [];
+    const plan: [string, number, boolean][] = [
+      ["1", 1, false],
+      ["2", 2, false],
+      ["3", 3, false],
+      ["3k", 3, true],
+    ];
+    for (const [key, replicas, kill] of plan) {
+      if (!runsWanted.includes(key)) continue;
+      if (Date.now() >= benchStart + capMs) break;
+      const label = kill ? `${replicas} replicas, one SIGKILLed` : `${replicas} replica(s)`;
+      const result = await runOnce(label, replicas, kill, channels, slack);
+      results.push(result);
+      console.log(`${label}: last digest after ${result.lastDigestS.toFixed(1)} s`);
+    }
+    console.log("");
+    console.log(
+      `Burst: ${channels.length} channels, digests due Monday 09:00 UTC, lease ${leaseMs / 1000} s, Slack faked at 1 post/s per channel`,
+    );
+    console.log(table(results));
+    const one = results.find((r) => r.label.startsWith("1 "));
+    const three = results.find((r) => r.label === "3 replica(s)");
+    if (one && three) {
+      console.log(
+        `3 replicas / 1 replica time: ${(three.lastDigestS / one.lastDigestS).toFixed(2)} (target ≤ 0.5); largest share with 3: ${(100 * three.maxShare).toFixed(0)}% (target ≤ 50%)`,
+      );
+    }
+    for (const r of results) if (r.takeover) console.log(`takeover: ${r.takeover}`);
+    const bad = results.filter((r) => r.doubles > 0 || !r.complete);
+    console.log(
+      bad.length === 0
+        ? "no channel was posted twice; every claim is final"
+        : `PROBLEM in: ${bad.map((r) => r.label).join(", ")}`,
+    );
+  } finally {
+    await slack.close();
+    const client = new pg.Client({ connectionString: PG_URL });
+    await client.connect();
+    await client.query(`DROP SCHEMA IF EXISTS ${schema} CASCADE`);
+    await client.end();
+  }
+}
+
+process.on("SIGINT", () => {
+  const client = new pg.Client({ connectionString: PG_URL });
+  client
+    .connect()
+    .then(() => client.query(`DROP SCHEMA IF EXISTS ${schema} CASCADE`))
+    .finally(() => process.exit(130));
+});
+
+await main();
