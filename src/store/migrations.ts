@@ -86,6 +86,16 @@ const MIGRATIONS: readonly Migration[] = [
       }
     },
   },
+  {
+    // Issue 16: format periods, kept like group labels (a facilitator's name, or null to end one).
+    // Numbered 5 on its branch; versions 3–4 come from other branches and the lead renumbers.
+    version: 5,
+    statements: [
+      `CREATE TABLE format_change (seq {SEQ}, channel TEXT NOT NULL, at BIGINT NOT NULL,
+        label TEXT)`,
+      `CREATE INDEX format_lookup ON format_change (channel, seq)`,
+    ],
+  },
 ];
 
 /** The schema version this code writes and reads. */

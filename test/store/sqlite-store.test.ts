@@ -5,7 +5,7 @@ import Database from "better-sqlite3";
 import { afterAll, describe, expect, it } from "vitest";
 import { leave } from "../../src/ingest/erase.js";
 import { type Delivery, ingest, ingestBatch } from "../../src/ingest/ingest.js";
-import { LATEST_SCHEMA_VERSION } from "../../src/store/migrations.js";
+import { LATEST_SCHEMA_VERSION, pendingMigrations } from "../../src/store/migrations.js";
 import { openSqliteStore, openStore, parseStoreUrl } from "../../src/store/open-store.js";
 import { storeContract } from "./store-contract.js";
 import { TEST_KEY } from "./test-key.js";
@@ -74,7 +74,8 @@ describe("SQLite store", () => {
       onMigrated: (i) => runs.push(i.applied),
     });
     await b.close();
-    expect(runs).toEqual([LATEST_SCHEMA_VERSION, 0]);
+    // Versions may skip numbers while branches merge: count the migrations, not the version.
+    expect(runs).toEqual([pendingMigrations("sqlite", 0).length, 0]);
     const raw = new Database(path);
     raw.prepare("UPDATE plumbline_schema SET version = ?").run(LATEST_SCHEMA_VERSION + 1);
     raw.close();
