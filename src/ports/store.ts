@@ -74,7 +74,7 @@ export interface StoreTx {
 }
 
 /** Opaque per-channel JSON state owned by other modules. */
-export type ChannelStateKind = "settings" | "balance-note" | "conversation";
+export type ChannelStateKind = "settings" | "balance-note" | "conversation" | "format-trial";
 
 export interface ChannelInfo {
   readonly channel: string;
