@@ -26,7 +26,7 @@ import { ingest } from "../ingest/ingest.js";
 import type { Store } from "../ports/store.js";
 import { EXPLAIN_POINTER } from "../report/digest-blocks.js";
 import { isoDay, probability } from "../report/format.js";
-import { formatsBlocks } from "../report/format-blocks.js";
+import { formatsBlocks, TIME_WARNING, verdictText } from "../report/format-blocks.js";
 import { readChannelSettings } from "./channel-settings-store.js";
 import { commandOccurrence } from "./command-keys.js";
 import type { CommandContext, CommandDeps, CommandResponse } from "./command-types.js";
@@ -106,13 +106,39 @@ export async function takeTrialVerdict(
   channel: string,
   now: number,
 ): Promise<Block[] | null> {
+  return (await takeTrialReport(store, channel, now))?.blocks ?? null;
+}
+
+/** The digest's line for a trial that has just ended (once), else null. */
+export async function trialVerdictLine(
+  store: Store,
+  channel: string,
+  now: number,
+): Promise<string | null> {
+  const taken = await takeTrialReport(store, channel, now);
+  if (taken === null) return null;
+  const { report } = taken;
+  if (report.pair === null) {
+    return "The format trial has ended, but too few weeks had enough replies and mentions to compare the two formats.";
+  }
+  return `The format trial has ended. ${verdictText(report.pair)}${report.pair.confoundedWithTime ? ` ${TIME_WARNING}` : ""}`;
+}
+
+async function takeTrialReport(
+  store: Store,
+  channel: string,
+  now: number,
+): Promise<{ blocks: Block[]; report: FormatsReport } | null> {
   const trial = await applyTrialSwitches(store, channel, now);
   if (trial === null || trial.verdictPosted || now < trialEnd(trial.plan)) return null;
   const settings = await readChannelSettings(store, channel);
   const snapshot = await store.loadSnapshot(channel);
   const report = trialVerdict(snapshot, analysisSettingsFor(settings), trial.plan);
   await store.writeChannelState(channel, "format-trial", { ...trial, verdictPosted: true });
-  return formatsBlocks(report, `Format trial result: ${trial.plan.a} against ${trial.plan.b}`);
+  return {
+    blocks: formatsBlocks(report, `Format trial result: ${trial.plan.a} against ${trial.plan.b}`),
+    report,
+  };
 }
 
 /** One line for a digest: the current format, and how it compares with the previous one so far. */
