@@ -8,7 +8,8 @@
  * listed and left out. The verdict asks for a margin: B is called more balanced only when the
  * posterior puts at least `VERDICT_CONFIDENCE` on B's balance exceeding A's by `MARGIN` or more
  * (a region of practical equivalence: Kruschke 2018, "Rejecting or accepting parameter values in
- * Bayesian estimation", Advances in Methods and Practices in Psychological Science 1(2)).
+ * Bayesian estimation", Advances in Methods and Practices in Psychological Science 1(2);
+ * from memory).
  * A before/after split with a trend inside the formats raises the time warning.
  */
 import { formatNames, formatPeriods } from "../attention/format-periods.js";

@@ -2,9 +2,9 @@
  * @module format-trial
  * A format trial (DESIGN.md §1): two formats take turns week by week, so a drift over time or one
  * busy week falls on both. `alternating` is ABAB… (the alternating-treatments design: Barlow &
- * Hersen 1984, "Single Case Experimental Designs", 2nd ed., Pergamon, ch. 8); `random` puts A and
+ * Hersen 1984, "Single Case Experimental Designs", 2nd ed., Pergamon; from memory); `random` puts A and
  * B in a seeded random order inside each block of two weeks (randomised blocks: Cochran & Cox
- * 1957, "Experimental Designs", 2nd ed., Wiley, ch. 4). The verdict is compare-formats' on the
+ * 1957, "Experimental Designs", 2nd ed., Wiley; from memory). The verdict is compare-formats' on the
  * trial's weeks only.
  */
 

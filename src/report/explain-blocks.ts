@@ -100,6 +100,7 @@ const WHY = [
 const LIMITS = [
   "What the figures cannot tell: counts of replies and mentions are a rough proxy for attention. People also listen in meetings, in private messages and by reading without replying. Silence is not agreement, and a member with a small share may still be the one everyone reads. The figures say nothing about whether anyone is right, and nothing about anyone's work.",
   "What to do with them: use them to notice patterns and to try different habits (who speaks first, who opens threads, asking for written views before deciding), then compare periods with /influence compare.",
+  "Formats: a facilitator names how the channel runs its discussion (/influence format written-first) and ends it (/influence format end). /influence compare formats shows each format's figures on its own weeks and how likely one spreads influence more evenly. Comparing one month with the next can mislead, because channels change over time anyway; a format trial (/influence format trial A B weeks 4) takes turns week by week and gives its verdict, with how sure it is, at the end.",
 ];
 
 /** `explain more`: the same figures by the names of the trade, for readers who want them. */

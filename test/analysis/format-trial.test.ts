@@ -2,7 +2,8 @@
  * Format comparison and trials, checked by simulation from a known truth (DESIGN.md rule:
  * statistics are checked by simulation): synthetic channels whose attention matrix is known in
  * every week. The true balance of each matrix is computed here independently, by power iteration
- * of the stationary vector (Markov 1906; the DeGroot 1974 model's consensus weights, JASA 69(345)).
+ * of the stationary vector (the DeGroot 1974 model's consensus weights, "Reaching a consensus", JASA 69(345);
+ * from memory), with the same self-weight 0.5 the model uses (it changes no shares).
  */
 import { describe, expect, it } from "vitest";
 import { compareFormats } from "../../src/analysis/compare-formats.js";
@@ -92,7 +93,7 @@ function snapshotOf(events: ChatEvent[]): LedgerSnapshot {
 
 const SETTINGS = { ...DEFAULT_SETTINGS, samples: 100 };
 const SPREAD = leaderMatrix(0.1);
-const CONCENTRATED = leaderMatrix(0.35);
+const CONCENTRATED = leaderMatrix(0.27);
 
 describe("trial plan (alternating treatments: Barlow & Hersen 1984, Single Case Experimental Designs, 2nd ed., Pergamon; randomised blocks: Cochran & Cox 1957, Experimental Designs, Wiley)", () => {
   it("alternates ABAB, or orders each block of two at random from a seed, each format in every block", () => {
@@ -121,7 +122,7 @@ describe("trial plan (alternating treatments: Barlow & Hersen 1984, Single Case 
     const spread = trueBalance(SPREAD);
     const concentrated = trueBalance(CONCENTRATED);
     // The truth the simulation starts from: B is more balanced than A by well over the margin.
-    expect(spread - concentrated).toBeGreaterThan(0.15);
+    expect(spread - concentrated).toBeGreaterThan(0.1);
     const runs = 30;
     let detected = 0;
     let quiet = 0;

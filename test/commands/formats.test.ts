@@ -2,7 +2,7 @@
  * `format <name>|end|list`, `format trial A B weeks N` and `compare formats [A B]` through
  * `handleCommand` on an invented seven-member channel (SQLite in memory). The trial's schedule is
  * the alternating-treatments design (Barlow & Hersen 1984, "Single Case Experimental Designs",
- * 2nd ed., Pergamon, ch. 8): formats take turns week by week.
+ * 2nd ed., Pergamon; from memory): formats take turns week by week.
  */
 import { describe, expect, it } from "vitest";
 import { digestFormatLine, takeTrialVerdict } from "../../src/commands/format-commands.js";
