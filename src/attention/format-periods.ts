@@ -31,7 +31,8 @@ export function formatAt(changes: readonly FormatChange[], at: number): string |
 }
 
 /**
- * The periods that started at or before `until`, in time order. A change to the format already
+ * The periods that started at or before `until`, in time order (one just started is listed,
+ * still empty). A change to the format already
  * running does not split its period; equal-time changes collapse to the last applied.
  */
 export function formatPeriods(changes: readonly FormatChange[], until: number): FormatPeriod[] {
@@ -47,7 +48,7 @@ export function formatPeriods(changes: readonly FormatChange[], until: number): 
     }
     current = change.format === null ? null : { format: change.format, start: change.at };
   }
-  if (current !== null && until > current.start) {
+  if (current !== null && until >= current.start) {
     periods.push({ format: current.format, start: current.start, end: until, open: true });
   }
   return periods;
