@@ -13,6 +13,7 @@ import type {
   CommandDeps,
   CommandResponse,
 } from "../src/commands/command-types.js";
+import { digestFormatLine, trialVerdictLine } from "../src/commands/format-commands.js";
 import { handleCommand } from "../src/commands/handle-command.js";
 import { namingPolicy } from "../src/commands/member-view.js";
 import { analysisSettingsFor } from "../src/domain/channel-settings.js";
@@ -83,7 +84,16 @@ export function createBot(options: BotOptions): Bot {
       namesOn: settings.names,
       disclosure: { snapshot, minMembers: settings.minMembers },
     });
-    return digestMessage({ report, previous: previous.sufficient ? previous : null, policy });
+    const formatLines = [
+      await digestFormatLine(store, channel, slotAt),
+      await trialVerdictLine(store, channel, slotAt),
+    ].filter((line): line is string => line !== null);
+    return digestMessage({
+      report,
+      previous: previous.sufficient ? previous : null,
+      policy,
+      formatLines,
+    });
   }
 
   // A quiet channel is re-evaluated at most daily: with no new event the figures only drift with

@@ -10,6 +10,7 @@ import { printable } from "../../src/report/printable.js";
 import { runAnalyze, runCompare, runWhatIf } from "./cli-analyze.js";
 import { runConsole } from "./cli-console.js";
 import { runDemo } from "./cli-demo.js";
+import { runFormats } from "./cli-formats.js";
 import type { CliIo } from "./cli-io.js";
 import { runRekey } from "./cli-rekey.js";
 import { runReport } from "./cli-report.js";
@@ -28,6 +29,11 @@ const COMMANDS: Record<string, { run: Command; summary: string; about: string }>
     run: runCompare,
     summary: "compare <log> --a RANGE --b RANGE",
     about: "two periods side by side, P(B more balanced)",
+  },
+  formats: {
+    run: runFormats,
+    summary: "formats <log> [--a F --b F]",
+    about: "meeting formats compared on their own periods",
   },
   whatif: {
     run: runWhatIf,
@@ -86,7 +92,7 @@ ${[...Object.values(COMMANDS), { summary: "help", about: "this text" }]
   .join("\n")}
 
 Every analysing command reads a log, or the store with --db URL --channel C.
-Model flags (analyze, compare, whatif): --channel C --until TIME --window DAYS --half-life DAYS
+Model flags (analyze, compare, formats, whatif): --channel C --until TIME --window DAYS --half-life DAYS
   --reply-weight W --mention-weight W --background B --self-weight S --samples K --interval P
   --seed N --threshold auto|SHARE --min-members N --min-signals N --skip-bad --json
 Ranges are YYYY-MM-DD..YYYY-MM-DD, both days included (UTC).

@@ -65,6 +65,14 @@ export function demoEvents(seed = 2026): ChatEvent[] {
     clock += 60_000;
     events.push({ type: "group", at: clock, channel, member: m.id, group: m.group });
   }
+  // The two formats as tagged periods (DESIGN.md §3 `format` events).
+  events.push({ type: "format", at: DEMO_START, channel, format: "coordinator-led" });
+  events.push({
+    type: "format",
+    at: DEMO_START + DEMO_SWITCH_WEEK * 7 * DAY_MS,
+    channel,
+    format: "rotating-hosts",
+  });
   const ids = MEMBERS.map((m) => m.id);
   const others = (who: string) => ids.filter((x) => x !== who);
   let counter = 0;

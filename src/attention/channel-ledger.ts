@@ -8,6 +8,7 @@
 import type { ChatEvent, ConsentLevel, MessageEvent } from "../domain/events.js";
 import {
   type ConsentChange,
+  type FormatChange,
   type GroupChange,
   isBroadcast,
   type LedgerMessage,
@@ -31,6 +32,7 @@ export class ChannelLedger {
   readonly channel: string;
   private readonly consent: ConsentChange[] = [];
   private readonly groups: GroupChange[] = [];
+  private readonly formats: FormatChange[] = [];
   private readonly consentTimeline = new ConsentTimeline();
   private readonly groupTimeline = new GroupTimeline();
   private readonly messages = new Map<string, StoredMessage>();
@@ -89,6 +91,9 @@ export class ChannelLedger {
         this.groupTimeline.add(change);
         return;
       }
+      case "format":
+        this.formats.push(Object.freeze({ at: event.at, format: event.format }));
+        return;
     }
   }
 
@@ -124,6 +129,7 @@ export class ChannelLedger {
       messages: Object.freeze(messages),
       consent: Object.freeze([...this.consent]),
       groups: Object.freeze([...this.groups]),
+      formats: Object.freeze([...this.formats]),
       lastEventAt: this.lastEventAt,
     });
   }

@@ -30,6 +30,7 @@ const EVENT_TYPES: readonly ChatEventType[] = [
   "delete",
   "undelete",
   "group",
+  "format",
 ];
 
 const LEVELS: readonly ConsentLevel[] = ["off", "counted", "named"];
@@ -44,6 +45,7 @@ const FIELDS: Readonly<Record<ChatEventType, { required: string[]; optional: str
   delete: { required: ["at", "channel", "id"], optional: [] },
   undelete: { required: ["at", "channel", "id"], optional: [] },
   group: { required: ["at", "channel", "member", "group"], optional: [] },
+  format: { required: ["at", "channel", "format"], optional: [] },
 };
 
 const ID_RULE = `a non-empty string of at most ${MAX_ID_LENGTH} characters`;
@@ -153,6 +155,14 @@ export function parseEventObject(record: Record<string, unknown>, line: number):
         throw bad("group", `expected a label (${ID_RULE}) or null to clear the member's group`);
       }
       return { type: eventType, at, channel, member, group };
+    }
+    case "format": {
+      const format = record.format;
+      if (format === null) return { type: eventType, at, channel, format: null };
+      if (typeof format !== "string" || format.length === 0 || format.length > MAX_ID_LENGTH) {
+        throw bad("format", `expected a format name (${ID_RULE}) or null to end the format period`);
+      }
+      return { type: eventType, at, channel, format };
     }
   }
 }

@@ -14,6 +14,7 @@ import { COMMAND_WORDS, commandUsage, helpMessage } from "../report/help-text.js
 import { check, compare, me, whatIf } from "./analysis-commands.js";
 import type { CommandContext, CommandDeps, CommandResponse } from "./command-types.js";
 import { facilitator, group, report, set, showSettings } from "./facilitator-commands.js";
+import { compareFormatsCommand, format } from "./format-commands.js";
 import { join, leave, status } from "./membership-commands.js";
 import { nearestMatch } from "./nearest-match.js";
 import { words } from "./parse-input.js";
@@ -49,12 +50,16 @@ const ROUTES: Record<string, Route> = {
         ? { visibility: "private", message: explainMoreMessage() }
         : null,
   status: none(status),
-  compare,
+  compare: async (context, deps, args) =>
+    args[0]?.toLowerCase() === "formats"
+      ? compareFormatsCommand(context, deps, args.slice(1))
+      : compare(context, deps, args),
   whatif: whatIf,
   report,
   settings: none(showSettings),
   set,
   group,
+  format,
   facilitator,
   help: none(async () => ({ visibility: "private", message: helpMessage() })),
 };

@@ -56,7 +56,15 @@ export interface GroupEvent extends EventBase {
   readonly group: string | null;
 }
 
+/** A facilitator's name for how the channel runs its discussion from `at` on (DESIGN.md §3). */
+export interface FormatEvent extends EventBase {
+  readonly type: "format";
+  /** `null` ends the current format period. */
+  readonly format: string | null;
+}
+
 export type ChatEvent =
+  | FormatEvent
   | ConsentEvent
   | MessageEvent
   | EditEvent

@@ -48,6 +48,12 @@ export interface GroupChange {
   readonly group: string | null;
 }
 
+/** A format period starts (name) or ends (null) at `at`; kept like group labels. */
+export interface FormatChange {
+  readonly at: number;
+  readonly format: string | null;
+}
+
 export interface LedgerSnapshot {
   readonly channel: string;
   /** Messages in ledger order (ascending `at`, then id). */
@@ -56,6 +62,8 @@ export interface LedgerSnapshot {
   readonly consent: readonly ConsentChange[];
   /** Group changes in the order they were applied. */
   readonly groups: readonly GroupChange[];
+  /** Format changes in the order they were applied (absent in snapshots built before issue 16). */
+  readonly formats?: readonly FormatChange[];
   /** Latest event time seen for the channel (epoch ms), or null if none. */
   readonly lastEventAt: number | null;
 }

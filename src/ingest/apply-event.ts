@@ -66,6 +66,9 @@ export async function applyEvent(ctx: ApplyContext, event: ChatEvent): Promise<v
         group: event.group,
       });
       return;
+    case "format":
+      await tx.addFormat(event.channel, { at: event.at, format: event.format });
+      return;
   }
 }
 

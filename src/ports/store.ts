@@ -12,6 +12,7 @@
 import type { ConsentLevel } from "../domain/events.js";
 import type {
   ConsentChange,
+  FormatChange,
   GroupChange,
   LedgerMessage,
   LedgerSnapshot,
@@ -54,6 +55,8 @@ export interface StoreTx {
   setPlatformId(channel: string, member: string, platformId: string | null): Promise<void>;
   /** Appends a group change (applied order is kept). */
   addGroup(channel: string, change: GroupChange): Promise<void>;
+  /** Appends a format change (applied order is kept). */
+  addFormat(channel: string, change: FormatChange): Promise<void>;
   findMessage(channel: string, id: string): Promise<StoredMessageHead | null>;
   /**
    * Stores a new ledger message, its mentions as rows of kind `mention`; false (and nothing
@@ -71,7 +74,7 @@ export interface StoreTx {
 }
 
 /** Opaque per-channel JSON state owned by other modules. */
-export type ChannelStateKind = "settings" | "balance-note" | "conversation";
+export type ChannelStateKind = "settings" | "balance-note" | "conversation" | "format-trial";
 
 export interface ChannelInfo {
   readonly channel: string;

@@ -39,6 +39,8 @@ export interface DigestArgs {
   readonly policy: NamingPolicy;
   /** The channel's display name for the heading; the channel id otherwise. */
   readonly channelName?: string;
+  /** Lines about meeting formats: the current one and how it compares, a trial's result. */
+  readonly formatLines?: readonly string[];
 }
 
 /** "Replies and mentions from 2026-11-02 to 2026-11-30 (28 days; one 14 days old counts half …)". */
@@ -188,6 +190,7 @@ export function digestBlocks(args: DigestArgs): Block[] {
   const blocks: Block[] = [
     { kind: "heading", text: `Balance digest · ${args.channelName ?? report.channel}` },
     { kind: "note", text: windowText(report) },
+    ...(args.formatLines ?? []).map((text): Block => ({ kind: "note", text })),
   ];
   if (report.status === "insufficient") {
     blocks.push({ kind: "note", text: neededText(report) });

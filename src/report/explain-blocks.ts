@@ -102,6 +102,7 @@ const LIMITS = [
   "With few replies from someone, we assume they listen as the channel does (or as the part of the channel they talk with does). That keeps one stray reply from deciding a share, and it fades as their own replies and mentions add up.",
   "What an interval promises: in test channels whose true attention we knew, the 90% range held the true share for about 8 to 9 members in 10 (measured with npm run calibrate). It does not promise that every member's true share is inside: one member in ten or more may lie outside their range. In large channels where one member leads and everyone has written only a few replies, as few as 3 members in 4 were inside.",
   "What to do with them: use them to notice patterns and to try different habits (who speaks first, who opens threads, asking for written views before deciding), then compare periods with /influence compare.",
+  "Formats: a facilitator names how the channel runs its discussion (/influence format written-first) and ends it (/influence format end). /influence compare formats shows each format's figures on its own weeks and how likely one spreads influence more evenly. Comparing one month with the next can mislead, because channels change over time anyway; a format trial (/influence format trial A B weeks 4) takes turns week by week and gives its verdict, with how sure it is, at the end.",
 ];
 
 /** `explain more`: the same figures by the names of the trade, for readers who want them. */

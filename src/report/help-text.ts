@@ -84,6 +84,18 @@ export const HELP_ENTRIES: readonly HelpEntry[] = [
     facilitatorsOnly: true,
   },
   {
+    usage: "format <name>|end|list",
+    summary:
+      "start a named format period (e.g. format written-first), end it, or list the periods; compare formats compares them",
+    facilitatorsOnly: true,
+  },
+  {
+    usage: "format trial A B weeks N",
+    summary:
+      "take turns with two formats week by week (add random for a random order in each pair of weeks) and post the result at the end",
+    facilitatorsOnly: true,
+  },
+  {
     usage: "facilitator add|remove <member>",
     summary: "give or take a member's facilitator role in this channel",
     facilitatorsOnly: true,

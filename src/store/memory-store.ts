@@ -68,6 +68,7 @@ class MemoryStore implements Store {
       messages: [...c.messages.values()],
       consent: c.consent,
       groups: c.groups,
+      formats: c.formats,
       platformIds: c.named,
       lastEventAt: this.state.rows.get(channel)?.lastEventAt ?? null,
     });
@@ -275,7 +276,12 @@ class MemoryStore implements Store {
     if (c !== undefined) {
       for (const m of c.messages.values()) rows += 1 + m.mentions.length;
       rows +=
-        c.consent.length + c.groups.length + c.named.size + c.facilitators.size + c.state.size;
+        c.consent.length +
+        c.groups.length +
+        c.formats.length +
+        c.named.size +
+        c.facilitators.size +
+        c.state.size;
       this.state.channels.delete(channel);
     }
     if (this.state.rows.delete(channel)) rows++;

@@ -4,7 +4,7 @@
  * roll a failed transaction back.
  */
 import type { ConsentLevel } from "../domain/events.js";
-import type { ConsentChange, GroupChange } from "../domain/ledger.js";
+import type { ConsentChange, FormatChange, GroupChange } from "../domain/ledger.js";
 import type { StoreTx } from "../ports/store.js";
 import { deliveryDigest } from "./migrations.js";
 
@@ -28,6 +28,7 @@ export interface MemoryDelivery {
 export interface MemoryChannel {
   consent: ConsentChange[];
   groups: GroupChange[];
+  formats: FormatChange[];
   readonly messages: Map<string, MemoryMessage>;
   /** Member key → platform id (named members only). */
   readonly named: Map<string, string>;
@@ -51,6 +52,7 @@ export function emptyChannel(): MemoryChannel {
   return {
     consent: [],
     groups: [],
+    formats: [],
     messages: new Map(),
     named: new Map(),
     state: new Map(),
@@ -146,6 +148,14 @@ export function memoryTx(state: MemoryState, undo: (() => void)[]): StoreTx {
         c.groups = before;
       });
       c.groups = [...before, change];
+    },
+    async addFormat(id, change) {
+      const c = channel(id);
+      const before = c.formats;
+      undo.push(() => {
+        c.formats = before;
+      });
+      c.formats = [...before, change];
     },
     async findMessage(id, messageId) {
       const m = state.channels.get(id)?.messages.get(messageId);

@@ -97,6 +97,15 @@ const MIGRATIONS: readonly Migration[] = [
         WHERE n.channel = facilitator.channel AND n.member = facilitator.member)`,
     ],
   },
+  {
+    // Issue 16: format periods, kept like group labels (a facilitator's name, or null to end one).
+    version: 4,
+    statements: [
+      `CREATE TABLE format_change (seq {SEQ}, channel TEXT NOT NULL, at BIGINT NOT NULL,
+        label TEXT)`,
+      `CREATE INDEX format_lookup ON format_change (channel, seq)`,
+    ],
+  },
 ];
 
 /** The schema version this code writes and reads. */

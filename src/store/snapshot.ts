@@ -33,6 +33,8 @@ export interface SnapshotRows {
     readonly at: number;
     readonly group: string | null;
   }[];
+  /** In applied order. */
+  readonly formats: readonly { readonly at: number; readonly format: string | null }[];
   /** Member key → platform id, for members whose platform id is kept. */
   readonly platformIds: ReadonlyMap<string, string>;
   readonly lastEventAt: number | null;
@@ -65,6 +67,7 @@ export function buildSnapshot(rows: SnapshotRows): LedgerSnapshot {
       notice: c.notice,
     })),
     groups: rows.groups.map((g) => ({ member: id(g.member), at: g.at, group: g.group })),
+    formats: rows.formats.map((f) => ({ at: f.at, format: f.format })),
     lastEventAt: rows.lastEventAt,
   };
 }

@@ -43,6 +43,7 @@ const CHANNEL_TABLES = [
   "message_target",
   "message",
   "group_change",
+  "format_change",
   "consent_change",
   "named_member",
   "facilitator",

@@ -163,6 +163,10 @@ export class SqlStore implements Store {
         "SELECT member, at, label FROM group_change WHERE channel = ? ORDER BY seq",
         [channel],
       );
+      const formats = await conn.all(
+        "SELECT at, label FROM format_change WHERE channel = ? ORDER BY seq",
+        [channel],
+      );
       const channelRow = await conn.all("SELECT last_event_at FROM channel WHERE channel = ?", [
         channel,
       ]);
@@ -188,6 +192,10 @@ export class SqlStore implements Store {
           member: String(g.member),
           at: num(g.at),
           group: g.label === null ? null : String(g.label),
+        })),
+        formats: formats.map((f) => ({
+          at: num(f.at),
+          format: f.label === null ? null : String(f.label),
         })),
         platformIds: await platformIds(conn, channel),
         lastEventAt: last === null || last === undefined ? null : num(last),

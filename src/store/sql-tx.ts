@@ -5,7 +5,7 @@
  * `INSERT … ON CONFLICT`, supported by both).
  */
 import type { ConsentLevel } from "../domain/events.js";
-import type { ConsentChange, GroupChange, LedgerMessage } from "../domain/ledger.js";
+import type { ConsentChange, FormatChange, GroupChange, LedgerMessage } from "../domain/ledger.js";
 import type { StoredMessageHead, StoreTx } from "../ports/store.js";
 import { deliveryDigest, type SqlDialect } from "./migrations.js";
 import { isConsentLevel } from "./snapshot.js";
@@ -105,6 +105,13 @@ export function sqlTx(conn: SqlConnection, dialect: SqlDialect): StoreTx {
         change.member,
         change.at,
         change.group,
+      ]);
+    },
+    async addFormat(channel, change: FormatChange) {
+      await conn.run("INSERT INTO format_change (channel, at, label) VALUES (?, ?, ?)", [
+        channel,
+        change.at,
+        change.format,
       ]);
     },
     async findMessage(channel, id): Promise<StoredMessageHead | null> {

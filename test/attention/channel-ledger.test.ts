@@ -6,6 +6,7 @@ import {
   ChannelLedger,
   latestEventTime,
 } from "../../src/attention/channel-ledger.js";
+import { formatAt, formatPeriods } from "../../src/attention/format-periods.js";
 import { consentLevelAt, groupLabelAt } from "../../src/attention/timeline.js";
 import type { ChatEvent } from "../../src/domain/events.js";
 import type { LedgerMessage } from "../../src/domain/ledger.js";
@@ -206,5 +207,38 @@ describe("rule 6 and snapshots", () => {
 
   it("refuses an event of another channel", () => {
     expect(() => ledgerOf([{ ...makeDelete("m"), channel: "c9" }])).toThrow(/channel "c9"/);
+  });
+});
+
+describe("format periods (DESIGN.md §3)", () => {
+  const fmt = (format: string | null, at: number): ChatEvent => ({
+    type: "format",
+    at,
+    channel: "c1",
+    format,
+  });
+  it("keeps format changes in applied order and cuts them into periods by time", () => {
+    const ledger = ledgerOf([
+      fmt("written-first", day(1)),
+      fmt(null, day(8)),
+      fmt("rotating-hosts", day(10)),
+      fmt("written-first", day(5)), // late arrival, same format: no split
+    ]);
+    const formats = ledger.snapshot().formats ?? [];
+    expect(formats.map((f) => f.format)).toEqual([
+      "written-first",
+      null,
+      "rotating-hosts",
+      "written-first",
+    ]);
+    expect(formatAt(formats, day(0))).toBeNull();
+    expect(formatAt(formats, day(6))).toBe("written-first");
+    expect(formatAt(formats, day(9))).toBeNull();
+    expect(formatPeriods(formats, day(12))).toEqual([
+      { format: "written-first", start: day(1), end: day(8), open: false },
+      { format: "rotating-hosts", start: day(10), end: day(12), open: true },
+    ]);
+    // A period starting after `until` does not exist yet.
+    expect(formatPeriods(formats, day(9)).map((p) => p.format)).toEqual(["written-first"]);
   });
 });

@@ -71,6 +71,24 @@ describe("parseEventLine: good lines", () => {
       member: "cy",
       group: null,
     });
+    // DESIGN.md §3's own format line, and `null` ending a period.
+    expect(
+      parseEventLine(
+        `{"type":"format","at":"2026-11-02T09:11:00Z","channel":"c1","format":"written-first"}`,
+        1,
+      ),
+    ).toEqual({
+      type: "format",
+      at: Date.UTC(2026, 10, 2, 9, 11, 0),
+      channel: "c1",
+      format: "written-first",
+    });
+    expect(parseEventLine(`{"type":"format",${base},"format":null}`, 1)).toEqual({
+      type: "format",
+      at,
+      channel: "c1",
+      format: null,
+    });
   });
 
   it("converts zone offsets and fractions (RFC 3339 §5.8 examples, Klyne & Newman 2002; from memory)", () => {
@@ -180,6 +198,9 @@ describe("parseEventLine: every bad-line kind names its code, line and field", (
       "group",
       /or null to clear/,
     ],
+    ["format key missing", `{"type":"format",${base}}`, "format", /missing/],
+    ["format empty", `{"type":"format",${base},"format":""}`, "format", /or null to end/],
+    ["format with a member", `{"type":"format",${base},"format":"x","member":"cy"}`, "member", /./],
     [
       "field not allowed for the type",
       `{"type":"delete",${base},"id":"m","author":"a"}`,

@@ -102,6 +102,7 @@ describe("SQLite store", () => {
       onMigrated: (i) => runs.push(i.applied),
     });
     await b.close();
+    // Versions may skip numbers while branches merge: count the migrations, not the version.
     expect(runs).toEqual([pendingMigrations("sqlite", 0).length, 0]);
     const raw = new Database(path);
     raw.prepare("UPDATE plumbline_schema SET version = ?").run(LATEST_SCHEMA_VERSION + 1);

@@ -69,6 +69,7 @@ export function expectedSnapshot(
     messages,
     consent: snap.consent.map((x) => ({ ...x, member: id(x.member) })),
     groups: snap.groups.map((x) => ({ ...x, member: id(x.member) })),
+    formats: snap.formats ?? [],
     lastEventAt: snap.lastEventAt,
   };
 }
@@ -170,6 +171,27 @@ export function storeContract(name: string, makeStore: () => Promise<StoreFixtur
       });
       snap = await store.loadSnapshot(c);
       expect(snap.messages[0].deleted).toBe(false);
+    });
+
+    it("keeps format periods in applied order, like group labels, and erases them with the channel", async () => {
+      const events: ChatEvent[] = [
+        consent("U1", "named"),
+        { type: "format", at: T0 + 1, channel: c, format: "written-first" },
+        msg("m1", "U1", T0 + 2),
+        { type: "format", at: T0 + 3, channel: c, format: null },
+        // A late event with an earlier time keeps its applied place, as group changes do.
+        { type: "format", at: T0 + 2, channel: c, format: "rotating-hosts" },
+      ];
+      await feed(store, events);
+      const snap = await store.loadSnapshot(c);
+      expect(snap.formats).toEqual([
+        { at: T0 + 1, format: "written-first" },
+        { at: T0 + 3, format: null },
+        { at: T0 + 2, format: "rotating-hosts" },
+      ]);
+      expect(snap).toEqual(expectedSnapshot(store, events, c));
+      await eraseChannel(store, c);
+      expect((await store.loadSnapshot(c)).formats).toEqual([]);
     });
 
     it("keeps a platform id only while the member's consent is named", async () => {
