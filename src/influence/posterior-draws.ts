@@ -7,15 +7,25 @@
  * (eds.), An Introduction to Markov State Models, Springer). Unobserved cells share one Gamma
  * variate G_0 ~ Gamma(b·(n−1−|J_i|)) whose share is spread evenly over them: by the aggregation
  * property of the Dirichlet this is exact for every figure that depends on the row only through
- * the observed cells and the unobserved total, and it keeps a draw O(nonzeros + n). Variates are
- * combined in log space (the row's largest log is subtracted before exponentiating). Draw order is
- * fixed — row by row, observed targets in CSR order, then G_0 — so one seed gives identical draws.
+ * the observed cells and the unobserved total, and it keeps a draw O(nonzeros + n). The Gamma
+ * constants of every cell and every G_0 are computed once per count matrix and background (a
+ * `DrawPlan`) and reused by all K draws. A row whose largest shape is at least LINEAR_MIN_SHAPE is
+ * drawn in linear space (its largest variate cannot underflow, and a smaller one that does is
+ * negligible next to it); a row of only tinier shapes is combined in log space (the row's largest
+ * log is subtracted before exponentiating). Draw order is fixed — row by row, observed targets in
+ * CSR order, then G_0 — so one seed gives identical draws.
  */
 
 import type { CountMatrix } from "../domain/counts.js";
 import type { Rng } from "../ports/rng.js";
 import { type AttentionRows, checkBackground, pointAttentionRows } from "./attention-rows.js";
-import { createGammaSampler, type GammaSampler } from "./gamma-sampler.js";
+import {
+  createGammaSampler,
+  type GammaConstants,
+  type GammaSampler,
+  gammaConstants,
+  LINEAR_MIN_SHAPE,
+} from "./gamma-sampler.js";
 import { checkSelfWeight, stationaryVector } from "./stationary-vector.js";
 
 export interface PosteriorOptions {
@@ -36,6 +46,44 @@ export interface DrawBuffer {
   readonly values: Float64Array;
   readonly rest: Float64Array;
   readonly logs: Float64Array;
+  /** Gamma constants for the background last drawn with (filled on first use). */
+  plan?: DrawPlan;
+}
+
+/** Per-cell and per-row Gamma constants for one count matrix and background. */
+interface DrawPlan {
+  readonly background: number;
+  /** One entry per stored cell (shape C_ij + b). */
+  readonly cells: GammaConstants;
+  /** One entry per row (shape b·unobserved; a placeholder 1 where that is 0). */
+  readonly rests: GammaConstants;
+  /** Per row: 1 when its largest shape allows linear space. */
+  readonly linear: Uint8Array;
+}
+
+function drawPlan(counts: CountMatrix, background: number): DrawPlan {
+  const n = counts.members.length;
+  const { rowPtr } = counts;
+  const b = n > 1 ? background / (n - 1) : 0;
+  const cellShapes = new Float64Array(counts.values.length);
+  const restShapes = new Float64Array(n).fill(1);
+  const linear = new Uint8Array(n);
+  for (let i = 0; i < n; i++) {
+    const restShape = b * (n - 1 - (rowPtr[i + 1] - rowPtr[i]));
+    let largest = restShape;
+    if (restShape > 0) restShapes[i] = restShape;
+    for (let k = rowPtr[i]; k < rowPtr[i + 1]; k++) {
+      cellShapes[k] = counts.values[k] + b;
+      if (cellShapes[k] > largest) largest = cellShapes[k];
+    }
+    linear[i] = largest >= LINEAR_MIN_SHAPE ? 1 : 0;
+  }
+  return {
+    background,
+    cells: gammaConstants(cellShapes),
+    rests: gammaConstants(restShapes),
+    linear,
+  };
 }
 
 export function createDrawBuffer(counts: CountMatrix): DrawBuffer {
@@ -70,11 +118,13 @@ function drawInto(
   counts: CountMatrix,
   background: number,
   gamma: GammaSampler,
-  target: { values: Float64Array; rest: Float64Array; logs: Float64Array },
+  target: { values: Float64Array; rest: Float64Array; logs: Float64Array; plan?: DrawPlan },
 ): void {
   const n = counts.members.length;
   const { rowPtr } = counts;
   const { values, rest, logs } = target;
+  if (target.plan?.background !== background) target.plan = drawPlan(counts, background);
+  const { cells, rests, linear } = target.plan;
   const b = n > 1 ? background / (n - 1) : 0;
   for (let i = 0; i < n; i++) {
     const lo = rowPtr[i];
@@ -84,29 +134,42 @@ function drawInto(
       rest[i] = n > 1 ? 1 / (n - 1) : 0;
       continue;
     }
-    let max = Number.NEGATIVE_INFINITY;
-    for (let k = lo; k < hi; k++) {
-      const log = gamma.logGamma(counts.values[k] + b);
-      logs[k] = log;
-      if (log > max) max = log;
-    }
     const restShape = b * unobserved;
-    const logRest = restShape > 0 ? gamma.logGamma(restShape) : Number.NEGATIVE_INFINITY;
-    if (logRest > max) max = logRest;
-    if (max === Number.NEGATIVE_INFINITY) {
+    let total = 0;
+    let restWeight = 0;
+    if (linear[i] === 1) {
+      for (let k = lo; k < hi; k++) {
+        const w = gamma.gammaAt(cells, k);
+        values[k] = w;
+        total += w;
+      }
+      restWeight = restShape > 0 ? gamma.gammaAt(rests, i) : 0;
+      total += restWeight;
+    } else {
+      let max = Number.NEGATIVE_INFINITY;
+      for (let k = lo; k < hi; k++) {
+        const log = gamma.logGammaAt(cells, k);
+        logs[k] = log;
+        if (log > max) max = log;
+      }
+      const logRest = restShape > 0 ? gamma.logGammaAt(rests, i) : Number.NEGATIVE_INFINITY;
+      if (logRest > max) max = logRest;
+      if (max !== Number.NEGATIVE_INFINITY) {
+        for (let k = lo; k < hi; k++) {
+          const w = Math.exp(logs[k] - max);
+          values[k] = w;
+          total += w;
+        }
+        restWeight = Math.exp(logRest - max);
+        total += restWeight;
+      }
+    }
+    if (!(total > 0)) {
       // Every variate underflowed even in log space (shapes near the smallest double): even row.
       for (let k = lo; k < hi; k++) values[k] = 0;
       rest[i] = 1 / (n - 1);
       continue;
     }
-    let total = 0;
-    for (let k = lo; k < hi; k++) {
-      const w = Math.exp(logs[k] - max);
-      values[k] = w;
-      total += w;
-    }
-    const restWeight = Math.exp(logRest - max);
-    total += restWeight;
     // rest_i applies to every j ≠ i, so observed cells carry it as a negative correction.
     const spread = unobserved > 0 ? restWeight / total / unobserved : 0;
     for (let k = lo; k < hi; k++) values[k] = values[k] / total - spread;
