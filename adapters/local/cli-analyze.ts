@@ -4,9 +4,9 @@
  * readable summary with the cautions, or the report object with `--json`.
  */
 
-import { analyzeSnapshot } from "../../src/analysis/analyze-snapshot.js";
-import { comparePeriods } from "../../src/analysis/compare-periods.js";
-import { whatIfCap } from "../../src/analysis/what-if.js";
+import type { AnalysisJob, ResultOf } from "../../src/analysis/analysis-job.js";
+import { progressLine } from "../../src/analysis/progress-line.js";
+import { poolSize, WorkerPool } from "../../src/analysis/worker-pool.js";
 import { parseDateRange, windowAndPrevious } from "../../src/domain/date-range.js";
 import { PlumblineError } from "../../src/domain/errors.js";
 import type { AnalysisSettings } from "../../src/domain/settings.js";
@@ -40,6 +40,18 @@ async function prepare(
   return { parsed, settings, until, snapshot: source.snapshot };
 }
 
+/** Runs one job on a pool started for it (PLUMBLINE_WORKERS), with the progress line. */
+async function runOnPool<J extends AnalysisJob>(io: CliIo, job: J): Promise<ResultOf<J>> {
+  const pool = new WorkerPool({ size: poolSize(io.env) });
+  try {
+    return await pool.run(job, {
+      onProgress: progressLine({ now: () => performance.now(), write: io.stderr }),
+    });
+  } finally {
+    await pool.close();
+  }
+}
+
 function print(io: CliIo, json: boolean, value: unknown, text: () => string): void {
   io.stdout(json ? `${JSON.stringify(value, null, 2)}\n` : text());
 }
@@ -47,7 +59,12 @@ function print(io: CliIo, json: boolean, value: unknown, text: () => string): vo
 export async function runAnalyze(argv: readonly string[], io: CliIo): Promise<number> {
   const usage = `plumbline analyze ${SOURCE} [flags] [--json]`;
   const { parsed, settings, until, snapshot } = await prepare(argv, io, usage);
-  const report = analyzeSnapshot(snapshot, settings, until === undefined ? {} : { until });
+  const report = await runOnPool(io, {
+    kind: "analyze",
+    snapshot,
+    settings,
+    ...(until === undefined ? {} : { until }),
+  });
   print(io, parsed.values.json === true, report, () =>
     renderText(summaryBlocks(report, { namesOn: true })),
   );
@@ -83,7 +100,7 @@ export async function runCompare(argv: readonly string[], io: CliIo): Promise<nu
       { hint: `usage: ${usage}` },
     );
   }
-  const result = comparePeriods(snapshot, settings, ranges);
+  const result = await runOnPool(io, { kind: "compare", snapshot, settings, ranges });
   print(io, parsed.values.json === true, result, () => renderText(compareBlocks(result)));
   return 0;
 }
@@ -104,7 +121,13 @@ export async function runWhatIf(argv: readonly string[], io: CliIo): Promise<num
       hint: "give a share between 0 and 1, for example 0.25",
     });
   }
-  const result = whatIfCap(snapshot, settings, { cap, ...(until === undefined ? {} : { until }) });
+  const result = await runOnPool(io, {
+    kind: "whatif",
+    snapshot,
+    settings,
+    cap,
+    ...(until === undefined ? {} : { until }),
+  });
   print(io, parsed.values.json === true, result, () => renderText(whatIfBlocks(result)));
   return 0;
 }

@@ -26,6 +26,8 @@ export interface AnalyzeOptions {
   readonly until?: number;
   /** Row transform applied before solving (the what-if cap). */
   readonly transform?: (rows: AttentionRows) => AttentionRows;
+  /** Called after each posterior draw with the number done so far (progress lines). */
+  readonly onDraw?: (done: number) => void;
 }
 
 /** The report together with the draws behind it, for compare and what-if. */
@@ -84,6 +86,7 @@ export function analyzeSnapshotDetailed(
     samples: settings.samples,
     seed,
     ...(options.transform ? { transform: options.transform } : {}),
+    ...(options.onDraw ? { onDraw: options.onDraw } : {}),
   });
   return { report: assembleReport(frame, input, influence), input, influence };
 }

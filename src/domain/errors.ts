@@ -23,7 +23,8 @@ export type ErrorCode =
   | "STORE_UNAVAILABLE"
   | "STORE_BAD_URL"
   | "STORE_NO_ID_KEY"
-  | "CONFIG_INVALID";
+  | "CONFIG_INVALID"
+  | "ANALYSIS_BUSY";
 
 export class PlumblineError extends Error {
   readonly code: ErrorCode;

@@ -20,6 +20,8 @@ export interface InfluenceOptions {
   readonly seed: number;
   /** Applied to every attention row set before solving (e.g. the what-if cap). */
   readonly transform?: (rows: AttentionRows) => AttentionRows;
+  /** Called after each posterior draw with the number done so far (progress lines). */
+  readonly onDraw?: (done: number) => void;
 }
 
 export interface InfluenceResult {
@@ -60,6 +62,7 @@ export function analyzeInfluence(counts: CountMatrix, options: InfluenceOptions)
     }).vector;
     draws.push(s);
     effectiveVoicesDraws[k] = effectiveVoicesOf(s);
+    options.onDraw?.(k + 1);
   }
   return {
     rows,
