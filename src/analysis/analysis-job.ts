@@ -47,6 +47,13 @@ export type ResultOf<J extends AnalysisJob> = AnalysisResults[J["kind"]];
 /** Progress of one job: posterior draws done of the total it makes. */
 export type DrawProgress = (done: number, total: number) => void;
 
+/** The runner of the CLI's tests and the console: every job in the calling thread. */
+export const inThreadRunner = {
+  run<J extends AnalysisJob>(job: J, options: { onProgress?: DrawProgress } = {}) {
+    return new Promise<ResultOf<J>>((resolve) => resolve(runJob(job, options.onProgress)));
+  },
+};
+
 /** Computes `job` in the calling thread. */
 export function runJob<J extends AnalysisJob>(job: J, onProgress?: DrawProgress): ResultOf<J> {
   return runAny(job, onProgress) as ResultOf<J>;

@@ -5,6 +5,7 @@
  * a worker pool, or a bounded queue in front of one (`serve`, DESIGN.md §8).
  */
 import type { AnalysisJob, DrawProgress, ResultOf } from "../analysis/analysis-job.js";
+import type { LedgerSnapshot } from "../domain/ledger.js";
 
 export interface RunOptions {
   /** Draws done of the total, as they happen. */
@@ -19,4 +20,16 @@ export interface RunOptions {
 
 export interface AnalysisRunner {
   run<J extends AnalysisJob>(job: J, options?: RunOptions): Promise<ResultOf<J>>;
+  /** New signals arrived in `channel` (a runner that caches drops that channel's results). */
+  invalidate?(channel: string): void;
+  /**
+   * As `run` for "now" (a check), but loads the snapshot only when no analysis of the same
+   * channel and settings is in flight or cached: three askers at once load it once and share
+   * both the snapshot and the result.
+   */
+  runShared?<J extends AnalysisJob>(
+    job: Omit<J, "snapshot">,
+    channel: string,
+    load: () => Promise<LedgerSnapshot>,
+  ): Promise<{ readonly result: ResultOf<J>; readonly snapshot: LedgerSnapshot }>;
 }
