@@ -4,7 +4,7 @@
  * readable summary with the cautions, or the report object with `--json`.
  */
 
-import type { AnalysisJob, ResultOf } from "../../src/analysis/analysis-job.js";
+import { type AnalysisJob, type ResultOf, runJob } from "../../src/analysis/analysis-job.js";
 import { progressLine } from "../../src/analysis/progress-line.js";
 import { poolSize, WorkerPool } from "../../src/analysis/worker-pool.js";
 import { parseDateRange, windowAndPrevious } from "../../src/domain/date-range.js";
@@ -40,13 +40,21 @@ async function prepare(
   return { parsed, settings, until, snapshot: source.snapshot };
 }
 
-/** Runs one job on a pool started for it (PLUMBLINE_WORKERS), with the progress line. */
+/**
+ * Runs one job with a pool started for it (PLUMBLINE_WORKERS): an analysis here, its posterior
+ * draws split over the pool's threads; compare and what-if as whole jobs on a worker. With the
+ * progress line after 2 s.
+ */
 async function runOnPool<J extends AnalysisJob>(io: CliIo, job: J): Promise<ResultOf<J>> {
   const pool = new WorkerPool({ size: poolSize(io.env) });
+  const onProgress = progressLine({ now: () => performance.now(), write: io.stderr });
   try {
-    return await pool.run(job, {
-      onProgress: progressLine({ now: () => performance.now(), write: io.stderr }),
-    });
+    if (job.kind === "analyze" && !pool.inThread) {
+      return runJob(job, onProgress, (plan, samples) =>
+        pool.drawRangesSync(plan, samples, onProgress),
+      );
+    }
+    return await pool.run(job, { onProgress });
   } finally {
     await pool.close();
   }

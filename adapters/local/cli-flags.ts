@@ -78,6 +78,7 @@ function numberFlag(
     minExclusive?: boolean;
     maxExclusive?: boolean;
   },
+  alternative?: string,
 ): number {
   const value = Number(raw);
   const lowOk = limits.minExclusive ? value > limits.min : value >= limits.min;
@@ -87,7 +88,7 @@ function numberFlag(
     const open = limits.minExclusive ? "above" : "from";
     const close = limits.maxExclusive ? "below" : "to";
     throw new PlumblineError("ARG_BAD_VALUE", `--${flag} ${JSON.stringify(raw)} is not allowed`, {
-      hint: `give ${limits.integer ? "a whole number" : "a number"} ${open} ${limits.min} ${close} ${limits.max}`,
+      hint: `give ${limits.integer ? "a whole number" : "a number"} ${open} ${limits.min} ${close} ${limits.max}${alternative ? `, ${alternative}` : ""}`,
     });
   }
   return value;
@@ -134,6 +135,13 @@ export function settingsFromFlags(
       : thresholdRaw === "auto"
         ? "auto"
         : numberFlag(thresholdRaw, "threshold", { min: 0.05, max: 0.95 });
+  const backgroundRaw = get("background");
+  const background =
+    backgroundRaw === undefined
+      ? base.background
+      : backgroundRaw === "auto"
+        ? "auto"
+        : numberFlag(backgroundRaw, "background", { min: 0, max: 1000 }, "or auto (default)");
   const seedRaw = get("seed");
   const settings: AnalysisSettings = {
     ...base,
@@ -141,7 +149,7 @@ export function settingsFromFlags(
     halfLifeDays: num("half-life", { min: 0, max: 365 }, base.halfLifeDays),
     replyWeight: num("reply-weight", { min: 0, max: 100 }, base.replyWeight),
     mentionWeight: num("mention-weight", { min: 0, max: 100 }, base.mentionWeight),
-    background: num("background", { min: 0, max: 1000 }, base.background),
+    background,
     selfWeight: num("self-weight", { min: 0, max: 1, maxExclusive: true }, base.selfWeight),
     samples: num("samples", { min: 0, max: 20000, integer: true }, base.samples),
     interval: num(

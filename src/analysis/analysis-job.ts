@@ -8,6 +8,7 @@ import type { DateRange } from "../domain/date-range.js";
 import type { LedgerSnapshot } from "../domain/ledger.js";
 import type { AnalysisReport } from "../domain/report.js";
 import type { AnalysisSettings } from "../domain/settings.js";
+import type { DrawRangeRunner } from "../influence/analyze-influence.js";
 import { analyzeSnapshot } from "./analyze-snapshot.js";
 import { type CompareReport, comparePeriods } from "./compare-periods.js";
 import { type WhatIfReport, whatIfCap } from "./what-if.js";
@@ -55,17 +56,26 @@ export const inThreadRunner = {
 };
 
 /** Computes `job` in the calling thread. */
-export function runJob<J extends AnalysisJob>(job: J, onProgress?: DrawProgress): ResultOf<J> {
-  return runAny(job, onProgress) as ResultOf<J>;
+export function runJob<J extends AnalysisJob>(
+  job: J,
+  onProgress?: DrawProgress,
+  drawRanges?: DrawRangeRunner,
+): ResultOf<J> {
+  return runAny(job, onProgress, drawRanges) as ResultOf<J>;
 }
 
-function runAny(job: AnalysisJob, onProgress?: DrawProgress): ResultOf<AnalysisJob> {
+function runAny(
+  job: AnalysisJob,
+  onProgress?: DrawProgress,
+  drawRanges?: DrawRangeRunner,
+): ResultOf<AnalysisJob> {
   switch (job.kind) {
     case "analyze": {
       const total = job.settings.samples;
       return analyzeSnapshot(job.snapshot, job.settings, {
         ...(job.until === undefined ? {} : { until: job.until }),
         ...(onProgress ? { onDraw: (done: number) => onProgress(done, total) } : {}),
+        ...(drawRanges ? { drawRanges } : {}),
       });
     }
     case "compare":

@@ -18,6 +18,7 @@ import { effectiveVoicesOf } from "../influence/analyze-influence.js";
 import { columnSums } from "../influence/attention-rows.js";
 import { contributorsTo } from "../influence/contributors.js";
 import { centralInterval, shareAtOrAbove } from "../influence/interval.js";
+import { posteriorMethod } from "../influence/posterior-draws.js";
 
 /** Fields every report has, whatever the data. */
 export type ReportFrame = Pick<
@@ -67,6 +68,8 @@ export function reportFrame(args: {
       replyWeight: settings.replyWeight,
       mentionWeight: settings.mentionWeight,
       background: settings.background,
+      priorStrength: null,
+      posterior: posteriorMethod(args.input.counts.members.length),
       selfWeight: settings.selfWeight,
       samples: settings.samples,
       interval: settings.interval,
@@ -108,12 +111,13 @@ export function noUniqueSharesReport(frame: ReportFrame, closedGroups: number): 
   };
 }
 
-/** 2010 U.S. Horizontal Merger Guidelines §5.3 bands, as an analogy only, never for n < 7. */
+/**
+ * The 2023 U.S. Merger Guidelines (DOJ/FTC), Guideline 1: an HHI above 1,800 is "highly
+ * concentrated". An analogy only, never for n < 7 (even shares of 6 members already give 1,667).
+ */
 export function concentrationBand(hhi: number, n: number): Concentration | null {
   if (n < 7) return null;
-  if (hhi < 1500) return "unconcentrated";
-  if (hhi <= 2500) return "moderate";
-  return "high";
+  return hhi > 1800 ? "high" : "below-high";
 }
 
 function memberDraws(draws: readonly Float64Array[], i: number): Float64Array {
@@ -210,8 +214,14 @@ export function assembleReport(
   )[0];
   const crossed = crossing.pAbove >= frame.confidence;
   const labelled = labelledGroups(input.labels);
+  const frameHead = head(frame);
   return {
-    ...head(frame),
+    ...frameHead,
+    settings: {
+      ...frameHead.settings,
+      priorStrength: round6(influence.priorStrength),
+      posterior: influence.posterior,
+    },
     status: "ok",
     sufficient: true,
     needed: null,

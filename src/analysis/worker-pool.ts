@@ -17,9 +17,10 @@ import { dirname, join } from "node:path";
 import { fileURLToPath, pathToFileURL } from "node:url";
 import { Worker } from "node:worker_threads";
 import { PlumblineError } from "../domain/errors.js";
+import type { DrawPlan, DrawRange } from "../influence/posterior-draws.js";
 import type { AnalysisRunner, RunOptions } from "../ports/analysis-runner.js";
 import { type AnalysisJob, type ResultOf, runJob } from "./analysis-job.js";
-import type { WorkerReply } from "./worker-pool-entry.js";
+import type { DrawTask, WorkerReply } from "./worker-pool-entry.js";
 
 /** The pool size from `PLUMBLINE_WORKERS` (a whole number ≥ 1), else the machine's parallelism. */
 export function poolSize(env: Readonly<Record<string, string | undefined>>): number {
@@ -121,6 +122,44 @@ export class WorkerPool implements AnalysisRunner {
       });
       this.dispatch();
     });
+  }
+
+  /**
+   * Posterior draws [0, samples) of one analysis split over the pool's workers (the calling
+   * thread waits, printing progress). Chunks are taken from a shared counter, each chunk is
+   * `drawShares(plan, from, to)` on its own per-draw streams, and the results land at their own
+   * offsets, so the draws are the same as in one thread for any pool size. Null (draws made by
+   * the caller) when the pool runs in-thread, has jobs of its own, or a worker fails or does not
+   * start within `startMs`.
+   */
+  drawRangesSync(
+    plan: DrawPlan,
+    samples: number,
+    onProgress?: (done: number, total: number) => void,
+    startMs = 30_000,
+  ): DrawRange | null {
+    if (this.inThread || this.closed || this.load > 0 || samples === 0) return null;
+    this.warm();
+    const n = plan.n;
+    const shares = new Float64Array(new SharedArrayBuffer(8 * samples * n));
+    const voices = new Float64Array(new SharedArrayBuffer(8 * samples));
+    const control = new Int32Array(new SharedArrayBuffer(16));
+    const chunk = Math.max(1, Math.ceil(samples / (8 * this.size)));
+    const task: DrawTask = { type: "draws", plan, samples, chunk, shares, voices, control };
+    for (const slot of this.slots) slot.worker.postMessage(task);
+    const begin = performance.now();
+    let done = 0;
+    while (done < samples) {
+      Atomics.wait(control, 0, done, 250);
+      done = Atomics.load(control, 0);
+      if (Atomics.load(control, 1) !== 0) return null;
+      if (Atomics.load(control, 3) === 0 && performance.now() - begin > startMs) {
+        Atomics.store(control, 2, samples); // let late workers find nothing left to do
+        return null;
+      }
+      onProgress?.(done, samples);
+    }
+    return { shares, effectiveVoices: voices };
   }
 
   /** Stops the workers; jobs not finished are rejected. */

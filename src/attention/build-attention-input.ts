@@ -2,7 +2,9 @@
  * @module build-attention-input
  * The attention layer's one entry for analysis: ledger snapshot → signals (collect-signals) →
  * the compressed sparse row count matrix C of DESIGN.md §4 step 3 (signal weights summed per
- * ordered pair; rows by sorted member id, columns ascending, no diagonal), plus the structure the
+ * ordered pair; rows by sorted member id, columns ascending, no diagonal) with each row's Kish
+ * factor Σw/Σw² (Kish 1965, "Survey Sampling", Wiley: the effective sample size of
+ * weighted data is (Σw)²/Σw², so k_i·c_i signals of weight 1 carry the row's information), plus the structure the
  * influence code needs: closed groups of the β = 0 view and, when asked for and no labels exist,
  * seeded Louvain clusters on a graphology graph. C is summed straight into CSR with a counting
  * pass (common practice): going through graphology's per-signal edge updates was 20× slower at
@@ -82,8 +84,11 @@ export function countMatrixFromSignals(
   const rowPtr = new Int32Array(n + 1);
   const cols: number[] = [];
   const vals: number[] = [];
+  const kish = new Float64Array(n);
   for (let i = 0; i < n; i++) {
     const touched: number[] = [];
+    let sum = 0;
+    let squares = 0;
     for (let p = perRow[i]; p < perRow[i + 1]; p++) {
       const k = order[p];
       const j = to[k];
@@ -92,8 +97,12 @@ export function countMatrixFromSignals(
         seen[j] = 1;
         touched.push(j);
       }
-      scratch[j] += signals[k].weight;
+      const w = signals[k].weight;
+      scratch[j] += w;
+      sum += w;
+      squares += w * w;
     }
+    kish[i] = squares > 0 ? sum / squares : 1;
     touched.sort((a, b) => a - b);
     for (const j of touched) {
       if (scratch[j] > 0) {
@@ -110,5 +119,6 @@ export function countMatrixFromSignals(
     rowPtr,
     colIdx: Int32Array.from(cols),
     values: Float64Array.from(vals),
+    kish,
   };
 }

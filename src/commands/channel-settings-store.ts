@@ -69,6 +69,10 @@ export function settingsFromStored(value: unknown): ChannelSettings {
       inRange(v.minMembers, SETTING_LIMITS.minMembers) && Number.isInteger(v.minMembers)
         ? v.minMembers
         : d.minMembers,
+    background:
+      v.background === "auto" || inRange(v.background, SETTING_LIMITS.background)
+        ? (v.background as number | "auto")
+        : d.background,
   };
 }
 

@@ -22,7 +22,8 @@ export type SettingKey =
   | "timezone"
   | "names"
   | "notes"
-  | "minmembers";
+  | "minmembers"
+  | "background";
 
 export const SETTING_KEYS: readonly SettingKey[] = [
   "threshold",
@@ -33,6 +34,7 @@ export const SETTING_KEYS: readonly SettingKey[] = [
   "names",
   "notes",
   "minmembers",
+  "background",
 ];
 
 const ALIASES: Record<string, SettingKey> = {
@@ -59,6 +61,8 @@ export const ALLOWED: Record<SettingKey, string> = {
   names: "on or off",
   notes: "channel, facilitators or off",
   minmembers: "a whole number from 3 to 50, e.g. set minmembers 5",
+  background:
+    "auto (learnt from the replies), or a prior strength in signals from 0 to 1000, e.g. set background 2",
 };
 
 function bad(key: SettingKey, given: string): PlumblineError {
@@ -164,6 +168,13 @@ export function parseSetting(
       const { min, max } = SETTING_LIMITS.minMembers;
       if (value === "" || !Number.isInteger(n) || n < min || n > max) throw bad(key, value);
       return { minMembers: n };
+    }
+    case "background": {
+      if (lower === "auto") return { background: "auto" };
+      const n = valueWords.length === 1 && value.trim() !== "" ? Number(value) : Number.NaN;
+      const { min, max } = SETTING_LIMITS.background;
+      if (!Number.isFinite(n) || n < min || n > max) throw bad(key, value);
+      return { background: n };
     }
   }
 }

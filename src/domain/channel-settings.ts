@@ -27,6 +27,8 @@ export interface ChannelSettings {
   readonly names: boolean;
   readonly notes: NotesDestination;
   readonly minMembers: number;
+  /** Prior strength (DESIGN.md §4.4): "auto" (learnt) or a number of signals ≥ 0. */
+  readonly background: number | "auto";
 }
 
 export const DEFAULT_CHANNEL_SETTINGS: ChannelSettings = Object.freeze({
@@ -38,6 +40,7 @@ export const DEFAULT_CHANNEL_SETTINGS: ChannelSettings = Object.freeze({
   names: false,
   notes: "channel",
   minMembers: DEFAULT_SETTINGS.minMembers,
+  background: DEFAULT_SETTINGS.background,
 });
 
 /** Allowed ranges of the `set` keys (issue: settings keys). */
@@ -46,6 +49,7 @@ export const SETTING_LIMITS = Object.freeze({
   windowDays: { min: 7, max: 90 },
   halfLifeDays: { min: 1, max: 60 },
   minMembers: { min: 3, max: 50 },
+  background: { min: 0, max: 1000 },
 });
 
 export function analysisSettingsFor(
@@ -58,5 +62,6 @@ export function analysisSettingsFor(
     windowDays: channel.windowDays,
     halfLifeDays: channel.halfLifeDays,
     minMembers: channel.minMembers,
+    background: channel.background,
   };
 }

@@ -14,6 +14,11 @@ export interface CountMatrix {
   readonly colIdx: Int32Array;
   /** C_ij > 0 for each stored entry. */
   readonly values: Float64Array;
+  /**
+   * Kish factor k_i = Σw/Σw² of row i's signal weights (DESIGN.md §4.3): the effective counts are
+   * Ĉ_ij = k_i·C_ij. Absent: 1 for every row (whole counts).
+   */
+  readonly kish?: Float64Array;
 }
 
 /** A partition of member indices, e.g. closed groups or clusters. */

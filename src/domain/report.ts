@@ -38,7 +38,8 @@ export interface GroupFigure {
   readonly headcountShare: number;
 }
 
-export type Concentration = "unconcentrated" | "moderate" | "high";
+/** 2023 U.S. Merger Guidelines, Guideline 1: HHI above 1,800 is "highly concentrated". */
+export type Concentration = "high" | "below-high";
 
 /** "ok": figures given; "insufficient": too little data; "no-unique-shares": β = 0 and several closed groups. */
 export type ReportStatus = "ok" | "insufficient" | "no-unique-shares";
@@ -55,7 +56,12 @@ export interface AnalysisReport {
   readonly settings: {
     readonly replyWeight: number;
     readonly mentionWeight: number;
-    readonly background: number;
+    /** The setting: "auto" or a fixed prior strength. */
+    readonly background: number | "auto";
+    /** Prior strength used, in signals: the median over rows (null when no figures). */
+    readonly priorStrength: number | null;
+    /** How every cell's posterior is drawn: "exact" (per cell) or "stick-breaking" (large n). */
+    readonly posterior: "exact" | "stick-breaking";
     readonly selfWeight: number;
     readonly samples: number;
     readonly interval: number;
@@ -83,7 +89,7 @@ export interface AnalysisReport {
     readonly reached: boolean;
     /** |λ2| of T. */
     readonly secondEigenvalue: number | null;
-    /** ln 0.5 / ln |λ2|; null when |λ2| is 0 (one round) or ≥ 1 (never). */
+    /** ln 0.5 / ln |λ2| at the report's σ; JSON only, never shown in chat. Null when |λ2| is 0 or ≥ 1. */
     readonly roundsToHalve: number | null;
   } | null;
   readonly contributors: readonly { readonly member: string; readonly share: number }[] | null;

@@ -13,8 +13,11 @@ export interface AnalysisSettings {
   readonly halfLifeDays: number;
   readonly replyWeight: number;
   readonly mentionWeight: number;
-  /** Background attention β ≥ 0, spread evenly over the other active members. */
-  readonly background: number;
+  /**
+   * Prior strength α in signals (DESIGN.md §4.4): "auto" learns it per row from the data (the
+   * default, chosen by calibration); a number ≥ 0 fixes it (0 = no prior).
+   */
+  readonly background: number | "auto";
   /** Self-weight σ in [0, 1): changes the speed of averaging, never the shares. */
   readonly selfWeight: number;
   /** Posterior draws K (0 = no intervals). */
@@ -40,7 +43,7 @@ export const DEFAULT_SETTINGS: AnalysisSettings = Object.freeze({
   halfLifeDays: 14,
   replyWeight: 1,
   mentionWeight: 1,
-  background: 1,
+  background: "auto",
   selfWeight: 0.5,
   samples: 400,
   interval: 0.9,

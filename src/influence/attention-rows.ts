@@ -1,8 +1,10 @@
 /**
  * @module attention-rows
  * The one representation every influence numeric works on: a sparse row-stochastic matrix A held
- * as stored entries plus a constant "rest" per row, A_ij = values_ij + rest_i for j ≠ i and
- * A_ii = values_ii. The background of DESIGN.md §4.4 is a rank-one-per-row term, so it never has
+ * as stored entries plus a "rest" per row along a profile p (all ones unless given),
+ * A_ij = values_ij + rest_i·p_j for j ≠ i and A_ii = values_ii. The prior part of DESIGN.md §4.4
+ * (the channel's attention profile, m^(i) = m without entry i) is a rank-one term minus its
+ * diagonal, so it never has
  * to be materialised: a left product x·A costs O(nonzeros + n), which is what makes power
  * iteration on the attention matrix cheap (the same device as the rank-one teleportation term of
  * PageRank; Brin & Page 1998, "The anatomy of a large-scale hypertextual Web search engine",
@@ -13,7 +15,8 @@ import type { CountMatrix } from "../domain/counts.js";
 import { PlumblineError } from "../domain/errors.js";
 
 /**
- * A row-stochastic n×n matrix: A_ij = values_ij + rest_i for every j ≠ i, A_ii = values_ii.
+ * A row-stochastic n×n matrix: A_ij = values_ij + rest_i·p_j for every j ≠ i (p = `profile`, or 1),
+ * A_ii = values_ii.
  * Stored entries may include the diagonal and may be negative (a correction); rows sum to 1.
  * `rowPtr` and `colIdx` may be shared with the `CountMatrix` they came from: treat them as
  * read-only.
@@ -24,8 +27,10 @@ export interface AttentionRows {
   readonly rowPtr: Int32Array;
   readonly colIdx: Int32Array;
   readonly values: Float64Array;
-  /** Length n: the weight row i puts on every other member on top of its stored entries. */
+  /** Length n: the weight row i puts on every other member j (times p_j) on top of its stored entries. */
   readonly rest: Float64Array;
+  /** Length n, non-negative: the profile p the rest follows; absent = 1 for every member. */
+  readonly profile?: Float64Array;
 }
 
 /** Guards the background setting β of DESIGN.md §4. */
@@ -104,10 +109,11 @@ export function rowsFromDense(matrix: readonly (readonly number[])[]): Attention
 
 /** T = σI + (1−σ)A as a dense array, for small cases and the dense eigen-solver. */
 export function denseTransition(rows: AttentionRows, selfWeight: number): number[][] {
-  const { n, rowPtr, colIdx, values, rest } = rows;
+  const { n, rowPtr, colIdx, values, rest, profile } = rows;
   const out: number[][] = [];
   for (let i = 0; i < n; i++) {
-    const row = new Array<number>(n).fill((1 - selfWeight) * rest[i]);
+    const row = new Array<number>(n);
+    for (let j = 0; j < n; j++) row[j] = (1 - selfWeight) * rest[i] * (profile ? profile[j] : 1);
     row[i] = selfWeight;
     for (let k = rowPtr[i]; k < rowPtr[i + 1]; k++) row[colIdx[k]] += (1 - selfWeight) * values[k];
     out.push(row);
@@ -116,18 +122,19 @@ export function denseTransition(rows: AttentionRows, selfWeight: number): number
 }
 
 /**
- * out = x·A in O(nonzeros + n): (xA)_j = Σ_i x_i values_ij + (R − x_j rest_j), R = Σ_i x_i rest_i.
- * `out` must not be `x`. Returns `out`.
+ * out = x·A in O(nonzeros + n): (xA)_j = Σ_i x_i values_ij + p_j(R − x_j rest_j),
+ * R = Σ_i x_i rest_i. `out` must not be `x`. Returns `out`.
  */
 export function leftMultiply(
   rows: AttentionRows,
   x: Float64Array,
   out: Float64Array,
 ): Float64Array {
-  const { n, rowPtr, colIdx, values, rest } = rows;
+  const { n, rowPtr, colIdx, values, rest, profile } = rows;
   let restTotal = 0;
   for (let i = 0; i < n; i++) restTotal += x[i] * rest[i];
-  for (let j = 0; j < n; j++) out[j] = restTotal - x[j] * rest[j];
+  if (profile) for (let j = 0; j < n; j++) out[j] = profile[j] * (restTotal - x[j] * rest[j]);
+  else for (let j = 0; j < n; j++) out[j] = restTotal - x[j] * rest[j];
   for (let i = 0; i < n; i++) {
     const xi = x[i];
     if (xi === 0) continue;
@@ -135,6 +142,41 @@ export function leftMultiply(
     for (let k = rowPtr[i]; k < hi; k++) out[colIdx[k]] += xi * values[k];
   }
   return out;
+}
+
+/** A_ij for j ≠ i, the stored entry (if any) plus the rest part. */
+export function rowEntry(rows: AttentionRows, i: number, j: number): number {
+  let a = i === j ? 0 : rows.rest[i] * (rows.profile ? rows.profile[j] : 1);
+  for (let k = rows.rowPtr[i]; k < rows.rowPtr[i + 1]; k++)
+    if (rows.colIdx[k] === j) a += rows.values[k];
+  return a;
+}
+
+/**
+ * The same matrix with a uniform rest (profile all ones): rows whose rest follows a profile are
+ * written out in full (n − 1 stored entries, rest 0). For transforms that treat a row's
+ * unobserved targets as one block of equal parts (the what-if cap).
+ */
+export function withUniformRest(rows: AttentionRows): AttentionRows {
+  const { n, rowPtr, colIdx, values, rest, profile } = rows;
+  if (!profile) return rows;
+  const ptr = new Int32Array(n + 1);
+  const cols = new Int32Array(n * Math.max(0, n - 1));
+  const vals = new Float64Array(n * Math.max(0, n - 1));
+  const dense = new Float64Array(n);
+  let p = 0;
+  for (let i = 0; i < n; i++) {
+    for (let j = 0; j < n; j++) dense[j] = rest[i] * profile[j];
+    for (let k = rowPtr[i]; k < rowPtr[i + 1]; k++) dense[colIdx[k]] += values[k];
+    for (let j = 0; j < n; j++) {
+      if (j === i) continue;
+      cols[p] = j;
+      vals[p] = dense[j];
+      p++;
+    }
+    ptr[i + 1] = p;
+  }
+  return { n, rowPtr: ptr, colIdx: cols, values: vals, rest: new Float64Array(n) };
 }
 
 /** Attention received: the column sums of A (1 = receives as much as it gives). */

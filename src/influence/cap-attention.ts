@@ -8,10 +8,11 @@
  * attention to others and is left alone.
  */
 import { PlumblineError } from "../domain/errors.js";
-import type { AttentionRows } from "./attention-rows.js";
+import { type AttentionRows, withUniformRest } from "./attention-rows.js";
 
 /** Returns new rows with every off-diagonal part ≤ cap; throws CAP_INFEASIBLE if cap < 1/(n−1). */
-export function capAttentionRows(rows: AttentionRows, cap: number): AttentionRows {
+export function capAttentionRows(given: AttentionRows, cap: number): AttentionRows {
+  const rows = withUniformRest(given);
   const { n, rowPtr, colIdx, values, rest } = rows;
   if (!(cap > 0 && cap <= 1)) {
     throw new PlumblineError("CAP_INFEASIBLE", `the cap must be a share in (0, 1], got ${cap}`, {

@@ -4,7 +4,7 @@
  * i ≠ j. From s = sT with T = σI + (1−σ)A and A_jj = 0 it follows that Σ_{i≠j} s_i A_ij = s_j, so
  * the parts sum to 1 (derived).
  */
-import type { AttentionRows } from "./attention-rows.js";
+import { type AttentionRows, rowEntry } from "./attention-rows.js";
 
 /** Parts of member j's share contributed by each other member, indexed by member (j's own is 0). */
 export function contributorsTo(
@@ -12,19 +12,11 @@ export function contributorsTo(
   shares: ArrayLike<number>,
   j: number,
 ): Float64Array {
-  const { n, rowPtr, colIdx, values, rest } = rows;
-  const parts = new Float64Array(n);
+  const parts = new Float64Array(rows.n);
   if (!(shares[j] > 0)) return parts;
-  for (let i = 0; i < n; i++) {
+  for (let i = 0; i < rows.n; i++) {
     if (i === j) continue;
-    let a = rest[i];
-    for (let k = rowPtr[i]; k < rowPtr[i + 1]; k++) {
-      if (colIdx[k] === j) {
-        a += values[k];
-        break;
-      }
-    }
-    parts[i] = (shares[i] * a) / shares[j];
+    parts[i] = (shares[i] * rowEntry(rows, i, j)) / shares[j];
   }
   return parts;
 }

@@ -156,8 +156,10 @@ export function createGammaSampler(rng: Rng): GammaSampler {
     logGammaAt: (constants, k) =>
       logGammaFrom(constants.d[k], constants.c[k], constants.boost[k], rng),
     logGamma(shape: number): number {
-      const { d, c, boost } = gammaConstants([shape]);
-      return logGammaFrom(d[0], c[0], boost[0], rng);
+      checkShape(shape); // constants on the spot, no allocation (shapes that change per draw)
+      const lifted = shape >= 1 ? shape : shape + 1;
+      const d = lifted - 1 / 3;
+      return logGammaFrom(d, 1 / Math.sqrt(9 * d), shape >= 1 ? 0 : 1 / shape, rng);
     },
   };
 }

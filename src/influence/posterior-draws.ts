@@ -1,234 +1,388 @@
 /**
  * @module posterior-draws
- * Uncertainty of the influence shares (DESIGN.md §4.6): each attention row gets an independent
- * Dirichlet posterior, Dirichlet(C_ij + b) over the n−1 others, drawn as normalised Gamma variates
- * (Noé 2008, "Probability distributions of molecular observables computed from Markov models",
- * J. Chem. Phys. 128:244103; Noé & Chodera 2014, "Uncertainty Estimation", in Bowman, Pande & Noé
- * (eds.), An Introduction to Markov State Models, Springer). Unobserved cells share one Gamma
- * variate G_0 ~ Gamma(b·(n−1−|J_i|)) whose share is spread evenly over them: by the aggregation
- * property of the Dirichlet this is exact for every figure that depends on the row only through
- * the observed cells and the unobserved total, and it keeps a draw O(nonzeros + n). The Gamma
- * constants of every cell and every G_0 are computed once per count matrix and background (a
- * `DrawPlan`) and reused by all K draws. A row whose largest shape is at least LINEAR_MIN_SHAPE is
- * drawn in linear space (its largest variate cannot underflow, and a smaller one that does is
- * negligible next to it); a row of only tinier shapes is combined in log space (the row's largest
- * log is subtracted before exponentiating). Draw order is fixed — row by row, observed targets in
- * CSR order, then G_0 — so one seed gives identical draws.
+ * Posterior draws of the influence shares (DESIGN.md §4.6, version 2). Each draw k, on its own
+ * random stream `createDrawRng(seed, k)`:
+ *
+ * 1. takes a profile m from its Dirichlet posterior (attention-prior), as normalised Gamma variates;
+ * 2. takes each row's prior strength α_i from its grid posterior (one uniform per row);
+ * 3. draws every cell of every row from Dirichlet(Ĉ_i + α_i·m^(i)) (Noé 2008, "Probability
+ *    distributions of molecular observables computed from Markov models", J. Chem. Phys.
+ *    128:244103, for the row-wise Dirichlet posterior of a transition matrix). By the additivity of
+ *    Gamma variates, Gamma(Ĉ_ij + α m_j) = Gamma(Ĉ_ij) + Gamma(α m_j), so a row is its observed
+ *    cells' Gamma(Ĉ_ij) plus a prior part Gamma(α)·W with W ~ Dirichlet(α·m^(i)) over all the
+ *    others. W is drawn per cell (normalised Gamma variates: the exact reference) when n ≤
+ *    EXACT_MEMBERS or when per-cell is cheaper, and otherwise by Sethuraman's stick-breaking
+ *    (Sethuraman 1994, "A constructive definition of Dirichlet priors", Statistica Sinica
+ *    4:639–650): weights V_t·Π_{u<t}(1−V_u), V ~ Beta(1, α), atoms from m^(i) — the masses the
+ *    construction puts on the n−1 points are exactly Dirichlet(α·m^(i)). Sticks stop when less than
+ *    STICK_REMAINDER of the prior part is left; that remainder follows m^(i) as its mean;
+ * 4. solves sT = s, warm-started from the point estimate, to DRAW_TOLERANCE.
+ *
+ * `drawShares` computes draws [from, to) from plain typed arrays and options only, so any range
+ * can run anywhere (e.g. a worker thread) and the concatenation is the same for any split.
  */
 
 import type { CountMatrix } from "../domain/counts.js";
-import type { Rng } from "../ports/rng.js";
-import { type AttentionRows, checkBackground, pointAttentionRows } from "./attention-rows.js";
-import {
-  createGammaSampler,
-  type GammaConstants,
-  type GammaSampler,
-  gammaConstants,
-  LINEAR_MIN_SHAPE,
-} from "./gamma-sampler.js";
+import { createDrawRng } from "../ports/rng.js";
+import { type AttentionPrior, type Background, buildAttentionPrior } from "./attention-prior.js";
+import type { AttentionRows } from "./attention-rows.js";
+import { createGammaSampler, type GammaSampler } from "./gamma-sampler.js";
 import { checkSelfWeight, stationaryVector } from "./stationary-vector.js";
 
-export interface PosteriorOptions {
-  /** β of DESIGN.md §4. */
-  readonly background: number;
-  /** σ of DESIGN.md §4. */
+/** Channels up to this many members draw every cell per draw (`settings.posterior` = "exact"). */
+export const EXACT_MEMBERS = 64;
+/** Stick-breaking stops when this share of a row's prior part is left (it follows m^(i)). */
+export const STICK_REMAINDER = 1e-6;
+/**
+ * Draws are solved to 1e-9 in L1 (the point estimate to 1e-12, DESIGN.md §4.5): far below the
+ * Monte Carlo error of the interval ends, which are reported to 6 decimals.
+ */
+export const DRAW_TOLERANCE = 1e-9;
+
+/** Everything a range of draws needs: typed arrays and numbers only. */
+export interface DrawPlan {
+  readonly n: number;
+  readonly rowPtr: Int32Array;
+  readonly colIdx: Int32Array;
+  /** Effective counts Ĉ per stored entry. */
+  readonly effective: Float64Array;
+  /** Dirichlet posterior parameters of the profile m. */
+  readonly concentration: Float64Array;
+  readonly grid: Float64Array;
+  /** n × grid.length cumulative weights of each row's prior strength. */
+  readonly cumulative: Float64Array;
   readonly selfWeight: number;
-  /** K, the number of draws. */
-  readonly samples: number;
-  readonly rng: Rng;
-  /** Warm start for every solve; default: the point estimate's stationary vector. */
-  readonly start?: Float64Array;
+  readonly seed: number;
+  /** Warm start of every solve (the point estimate's shares). */
+  readonly start: Float64Array;
 }
 
-/** Reusable storage for posterior draws of one count matrix. */
-export interface DrawBuffer {
-  readonly rows: AttentionRows;
-  readonly values: Float64Array;
+export interface DrawRange {
+  /** (to − from) × n shares, draw by draw. */
+  readonly shares: Float64Array;
+  /** 1/Σs² per draw. */
+  readonly effectiveVoices: Float64Array;
+}
+
+/** `settings.posterior`: how each row's prior part is drawn. */
+export function posteriorMethod(n: number): "exact" | "stick-breaking" {
+  return n <= EXACT_MEMBERS ? "exact" : "stick-breaking";
+}
+
+export function drawPlan(
+  counts: CountMatrix,
+  prior: AttentionPrior,
+  options: { selfWeight: number; seed: number; start: Float64Array },
+): DrawPlan {
+  return {
+    n: prior.n,
+    rowPtr: counts.rowPtr,
+    colIdx: counts.colIdx,
+    effective: prior.effective,
+    concentration: prior.concentration,
+    grid: prior.grid,
+    cumulative: prior.cumulative,
+    selfWeight: options.selfWeight,
+    seed: options.seed,
+    start: options.start,
+  };
+}
+
+/** Growable storage for one drawn matrix (rows of variable length). */
+class RowBuilder {
+  cols: Int32Array;
+  vals: Float64Array;
+  readonly rowPtr: Int32Array;
   readonly rest: Float64Array;
-  readonly logs: Float64Array;
-  /** Gamma constants for the background last drawn with (filled on first use). */
-  plan?: DrawPlan;
-}
-
-/** Per-cell and per-row Gamma constants for one count matrix and background. */
-interface DrawPlan {
-  readonly background: number;
-  /** One entry per stored cell (shape C_ij + b). */
-  readonly cells: GammaConstants;
-  /** One entry per row (shape b·unobserved; a placeholder 1 where that is 0). */
-  readonly rests: GammaConstants;
-  /** Per row: 1 when its largest shape allows linear space. */
-  readonly linear: Uint8Array;
-}
-
-function drawPlan(counts: CountMatrix, background: number): DrawPlan {
-  const n = counts.members.length;
-  const { rowPtr } = counts;
-  const b = n > 1 ? background / (n - 1) : 0;
-  const cellShapes = new Float64Array(counts.values.length);
-  const restShapes = new Float64Array(n).fill(1);
-  const linear = new Uint8Array(n);
-  for (let i = 0; i < n; i++) {
-    const restShape = b * (n - 1 - (rowPtr[i + 1] - rowPtr[i]));
-    let largest = restShape;
-    if (restShape > 0) restShapes[i] = restShape;
-    for (let k = rowPtr[i]; k < rowPtr[i + 1]; k++) {
-      cellShapes[k] = counts.values[k] + b;
-      if (cellShapes[k] > largest) largest = cellShapes[k];
-    }
-    linear[i] = largest >= LINEAR_MIN_SHAPE ? 1 : 0;
+  size = 0;
+  constructor(n: number, capacity: number) {
+    this.cols = new Int32Array(Math.max(16, capacity));
+    this.vals = new Float64Array(Math.max(16, capacity));
+    this.rowPtr = new Int32Array(n + 1);
+    this.rest = new Float64Array(n);
   }
-  return {
-    background,
-    cells: gammaConstants(cellShapes),
-    rests: gammaConstants(restShapes),
-    linear,
-  };
+  push(col: number, value: number): void {
+    if (this.size === this.cols.length) {
+      const cols = new Int32Array(this.cols.length * 2);
+      cols.set(this.cols);
+      this.cols = cols;
+      const vals = new Float64Array(this.vals.length * 2);
+      vals.set(this.vals);
+      this.vals = vals;
+    }
+    this.cols[this.size] = col;
+    this.vals[this.size] = value;
+    this.size++;
+  }
 }
 
-export function createDrawBuffer(counts: CountMatrix): DrawBuffer {
-  const n = counts.members.length;
-  const nnz = counts.values.length;
-  const values = new Float64Array(nnz);
-  const rest = new Float64Array(n);
-  return {
-    rows: { n, rowPtr: counts.rowPtr, colIdx: counts.colIdx, values, rest },
-    values,
-    rest,
-    logs: new Float64Array(nnz),
-  };
+/** Index of the first cumulative weight above u in [lo, hi) (binary search). */
+function searchCumulative(cumulative: Float64Array, lo: number, hi: number, u: number): number {
+  let a = lo;
+  let b = hi - 1;
+  while (a < b) {
+    const mid = (a + b) >>> 1;
+    if (cumulative[mid] > u) b = mid;
+    else a = mid + 1;
+  }
+  return a - lo;
 }
 
-/**
- * Overwrites `buffer.rows` with the next posterior draw of A (the same draw sequence as
- * `drawAttentionRows` and `posteriorShares` for the same sampler).
- */
-export function drawIntoBuffer(
-  counts: CountMatrix,
-  background: number,
+/** Fills `out` with one profile drawn from Dirichlet(concentration); returns its cumulative sums. */
+function drawProfile(
+  concentration: Float64Array,
   gamma: GammaSampler,
-  buffer: DrawBuffer,
-): AttentionRows {
-  drawInto(counts, background, gamma, buffer);
-  return buffer.rows;
-}
-
-/** Fills `values` and `rest` with one posterior draw of A; `logs` is scratch of nnz length. */
-function drawInto(
-  counts: CountMatrix,
-  background: number,
-  gamma: GammaSampler,
-  target: { values: Float64Array; rest: Float64Array; logs: Float64Array; plan?: DrawPlan },
+  out: Float64Array,
+  cumulative: Float64Array,
 ): void {
-  const n = counts.members.length;
-  const { rowPtr } = counts;
-  const { values, rest, logs } = target;
-  if (target.plan?.background !== background) target.plan = drawPlan(counts, background);
-  const { cells, rests, linear } = target.plan;
-  const b = n > 1 ? background / (n - 1) : 0;
-  for (let i = 0; i < n; i++) {
-    const lo = rowPtr[i];
-    const hi = rowPtr[i + 1];
-    const unobserved = n - 1 - (hi - lo);
-    if (hi === lo) {
-      rest[i] = n > 1 ? 1 / (n - 1) : 0;
-      continue;
-    }
-    const restShape = b * unobserved;
-    let total = 0;
-    let restWeight = 0;
-    if (linear[i] === 1) {
-      for (let k = lo; k < hi; k++) {
-        const w = gamma.gammaAt(cells, k);
-        values[k] = w;
-        total += w;
-      }
-      restWeight = restShape > 0 ? gamma.gammaAt(rests, i) : 0;
-      total += restWeight;
-    } else {
-      let max = Number.NEGATIVE_INFINITY;
-      for (let k = lo; k < hi; k++) {
-        const log = gamma.logGammaAt(cells, k);
-        logs[k] = log;
-        if (log > max) max = log;
-      }
-      const logRest = restShape > 0 ? gamma.logGammaAt(rests, i) : Number.NEGATIVE_INFINITY;
-      if (logRest > max) max = logRest;
-      if (max !== Number.NEGATIVE_INFINITY) {
-        for (let k = lo; k < hi; k++) {
-          const w = Math.exp(logs[k] - max);
-          values[k] = w;
-          total += w;
-        }
-        restWeight = Math.exp(logRest - max);
-        total += restWeight;
-      }
-    }
-    if (!(total > 0)) {
-      // Every variate underflowed even in log space (shapes near the smallest double): even row.
-      for (let k = lo; k < hi; k++) values[k] = 0;
-      rest[i] = 1 / (n - 1);
-      continue;
-    }
-    // rest_i applies to every j ≠ i, so observed cells carry it as a negative correction.
-    const spread = unobserved > 0 ? restWeight / total / unobserved : 0;
-    for (let k = lo; k < hi; k++) values[k] = values[k] / total - spread;
-    rest[i] = spread;
+  const n = concentration.length;
+  let max = Number.NEGATIVE_INFINITY;
+  for (let j = 0; j < n; j++) {
+    const log = gamma.logGamma(concentration[j]);
+    out[j] = log;
+    if (log > max) max = log;
   }
+  let total = 0;
+  for (let j = 0; j < n; j++) {
+    out[j] = Math.exp(out[j] - max);
+    total += out[j];
+  }
+  let running = 0;
+  for (let j = 0; j < n; j++) {
+    out[j] /= total;
+    running += out[j];
+    cumulative[j] = running;
+  }
+  cumulative[n - 1] = 1;
 }
 
-/** One draw of A from the row-wise Dirichlet posterior of DESIGN.md §4.6 (structure shared). */
-export function drawAttentionRows(
-  counts: CountMatrix,
-  background: number,
-  rng: Rng,
-): AttentionRows {
-  checkBackground(background);
-  const n = counts.members.length;
-  const nnz = counts.values.length;
-  const values = new Float64Array(nnz);
-  const rest = new Float64Array(n);
-  drawInto(counts, background, createGammaSampler(rng), {
-    values,
-    rest,
-    logs: new Float64Array(nnz),
-  });
-  return { n, rowPtr: counts.rowPtr, colIdx: counts.colIdx, values, rest };
+interface Scratch {
+  readonly logs: Float64Array;
+  readonly atoms: Int32Array;
+  readonly atomLogs: Float64Array;
 }
 
 /**
- * K posterior draws of the influence shares: draw A, solve sT = s warm-started from `start`.
- * Draws are made in a fixed order, so the same seed gives byte-identical vectors.
+ * Row i of one draw into `rows`: observed cells Gamma(Ĉ_ij), prior part Gamma(α)·W. Variates are
+ * combined in log space (the row's largest log is subtracted before exponentiating).
  */
-export function posteriorShares(counts: CountMatrix, options: PosteriorOptions): Float64Array[] {
-  const { background, selfWeight, samples, rng } = options;
-  checkBackground(background);
-  checkSelfWeight(selfWeight);
+function drawRow(
+  plan: DrawPlan,
+  i: number,
+  alpha: number,
+  m: Float64Array,
+  mCumulative: Float64Array,
+  perCell: boolean,
+  gamma: GammaSampler,
+  next: () => number,
+  rows: RowBuilder,
+  scratch: Scratch,
+): void {
+  const { n, rowPtr, colIdx, effective } = plan;
+  const lo = rowPtr[i];
+  const hi = rowPtr[i + 1];
+  const off = 1 - m[i];
+  const start = rows.size;
+  if (alpha <= 0) {
+    if (hi === lo) {
+      rows.rest[i] = 1 / off; // no prior and no signals: the row follows the drawn profile
+      return;
+    }
+    let max = Number.NEGATIVE_INFINITY;
+    for (let k = lo; k < hi; k++) {
+      const log = gamma.logGamma(effective[k]);
+      scratch.logs[k - lo] = log;
+      if (log > max) max = log;
+    }
+    let total = 0;
+    for (let k = lo; k < hi; k++) {
+      const w = Math.exp(scratch.logs[k - lo] - max);
+      rows.push(colIdx[k], w);
+      total += w;
+    }
+    for (let p = start; p < rows.size; p++) rows.vals[p] /= total;
+    return;
+  }
+  const logs = scratch.logs;
+  let max = Number.NEGATIVE_INFINITY;
+  for (let k = lo; k < hi; k++) {
+    const log = gamma.logGamma(effective[k]);
+    logs[k - lo] = log;
+    if (log > max) max = log;
+  }
+  if (perCell) {
+    // W per cell: Gamma(α m^(i)_j) for every j ≠ i (their sum is the prior part Gamma(α)).
+    const scale = alpha / off;
+    let atomCount = 0;
+    for (let j = 0; j < n; j++) {
+      if (j === i) continue;
+      const shape = scale * m[j];
+      if (!(shape > 0)) continue;
+      const log = gamma.logGamma(shape);
+      scratch.atoms[atomCount] = j;
+      scratch.atomLogs[atomCount] = log;
+      atomCount++;
+      if (log > max) max = log;
+    }
+    let total = 0;
+    for (let k = lo; k < hi; k++) {
+      const w = Math.exp(logs[k - lo] - max);
+      rows.push(colIdx[k], w);
+      total += w;
+    }
+    for (let t = 0; t < atomCount; t++) {
+      const w = Math.exp(scratch.atomLogs[t] - max);
+      rows.push(scratch.atoms[t], w);
+      total += w;
+    }
+    for (let p = start; p < rows.size; p++) rows.vals[p] /= total;
+    return;
+  }
+  // Stick-breaking for W; the prior part's total is one Gamma(α) variate.
+  const logPrior = gamma.logGamma(alpha);
+  if (logPrior > max) max = logPrior;
+  let total = 0;
+  for (let k = lo; k < hi; k++) {
+    const w = Math.exp(logs[k - lo] - max);
+    rows.push(colIdx[k], w);
+    total += w;
+  }
+  const prior = Math.exp(logPrior - max);
+  total += prior;
+  let remaining = 1;
+  const inverseAlpha = 1 / alpha;
+  while (remaining > STICK_REMAINDER) {
+    const v = 1 - (1 - next()) ** inverseAlpha; // Beta(1, α) by inversion
+    const piece = remaining * v;
+    remaining -= piece;
+    let j = i;
+    while (j === i) j = searchCumulative(mCumulative, 0, n, next());
+    rows.push(j, prior * piece);
+  }
+  for (let p = start; p < rows.size; p++) rows.vals[p] /= total;
+  rows.rest[i] = (prior * remaining) / total / off;
+}
+
+/** Scratch shared by the draws of one range. */
+interface RangeScratch extends Scratch {
+  readonly m: Float64Array;
+  readonly mCumulative: Float64Array;
+}
+
+function rangeScratch(plan: DrawPlan): RangeScratch {
+  const n = plan.n;
+  let maxRow = 0;
+  for (let i = 0; i < n; i++) maxRow = Math.max(maxRow, plan.rowPtr[i + 1] - plan.rowPtr[i]);
+  return {
+    logs: new Float64Array(Math.max(1, maxRow)),
+    atoms: new Int32Array(n),
+    atomLogs: new Float64Array(n),
+    m: new Float64Array(n),
+    mCumulative: new Float64Array(n),
+  };
+}
+
+function drawMatrixInto(plan: DrawPlan, k: number, scratch: RangeScratch): AttentionRows {
+  const { n, grid, cumulative, concentration } = plan;
+  const G = grid.length;
+  const { m, mCumulative } = scratch;
+  const rng = createDrawRng(plan.seed, k);
+  const gamma = createGammaSampler(rng);
+  const next = () => rng.next();
+  drawProfile(concentration, gamma, m, mCumulative);
+  const rows = new RowBuilder(n, plan.effective.length + 8 * n);
+  const exact = posteriorMethod(n) === "exact";
+  const stickCost = Math.log(1 / STICK_REMAINDER);
+  for (let i = 0; i < n; i++) {
+    const g = G === 1 ? 0 : searchCumulative(cumulative, i * G, (i + 1) * G, rng.next());
+    const alpha = grid[g];
+    const perCell = exact || alpha * stickCost >= n - 1;
+    if (n > 1) drawRow(plan, i, alpha, m, mCumulative, perCell, gamma, next, rows, scratch);
+    rows.rowPtr[i + 1] = rows.size;
+  }
+  return {
+    n,
+    rowPtr: rows.rowPtr,
+    colIdx: rows.cols.subarray(0, rows.size),
+    values: rows.vals.subarray(0, rows.size),
+    rest: rows.rest,
+    profile: Float64Array.from(m),
+  };
+}
+
+/** Posterior draw k of the attention matrix A (before any transform). */
+export function drawAttentionMatrix(plan: DrawPlan, k: number): AttentionRows {
+  if (!Number.isInteger(k) || k < 0)
+    throw new RangeError(`draw index must be an integer ≥ 0, got ${k}`);
+  return drawMatrixInto(plan, k, rangeScratch(plan));
+}
+
+/**
+ * Draws k ∈ [from, to) of the posterior shares. Pure: the result depends only on `plan`, `from`
+ * and `to` (and `transform`), never on which other draws are computed, or where.
+ */
+export function drawShares(
+  plan: DrawPlan,
+  from: number,
+  to: number,
+  transform?: (rows: AttentionRows) => AttentionRows,
+): DrawRange {
+  checkSelfWeight(plan.selfWeight);
+  if (!Number.isInteger(from) || !Number.isInteger(to) || from < 0 || to < from) {
+    throw new RangeError(`draw range must be integers 0 ≤ from ≤ to, got [${from}, ${to})`);
+  }
+  const n = plan.n;
+  const count = to - from;
+  const shares = new Float64Array(count * n);
+  const effectiveVoices = new Float64Array(count);
+  if (n === 0) return { shares, effectiveVoices };
+  const scratch = rangeScratch(plan);
+  for (let k = from; k < to; k++) {
+    const drawn = drawMatrixInto(plan, k, scratch);
+    const solved = stationaryVector(transform ? transform(drawn) : drawn, {
+      selfWeight: plan.selfWeight,
+      start: plan.start,
+      tolerance: DRAW_TOLERANCE,
+    }).vector;
+    const offset = (k - from) * n;
+    let squares = 0;
+    for (let j = 0; j < n; j++) {
+      shares[offset + j] = solved[j];
+      squares += solved[j] * solved[j];
+    }
+    effectiveVoices[k - from] = squares > 0 ? 1 / squares : 0;
+  }
+  return { shares, effectiveVoices };
+}
+
+/**
+ * K posterior draws of the shares for `counts` (a convenience over `buildAttentionPrior`,
+ * `drawPlan` and `drawShares`), one Float64Array per draw.
+ */
+export function posteriorShares(
+  counts: CountMatrix,
+  options: {
+    readonly background: Background;
+    readonly selfWeight: number;
+    readonly samples: number;
+    readonly seed: number;
+    readonly start?: Float64Array;
+  },
+): Float64Array[] {
+  const { samples } = options;
   if (!Number.isInteger(samples) || samples < 0) {
     throw new RangeError(`samples must be a non-negative integer, got ${samples}`);
   }
-  const n = counts.members.length;
-  const nnz = counts.values.length;
-  const start =
-    options.start ??
-    stationaryVector(pointAttentionRows(counts, background), { selfWeight }).vector;
-  const buffer = {
-    values: new Float64Array(nnz),
-    rest: new Float64Array(n),
-    logs: new Float64Array(nnz),
-  };
-  const rows: AttentionRows = {
-    n,
-    rowPtr: counts.rowPtr,
-    colIdx: counts.colIdx,
-    values: buffer.values,
-    rest: buffer.rest,
-  };
-  const draws: Float64Array[] = [];
-  const gamma = createGammaSampler(rng);
-  for (let k = 0; k < samples; k++) {
-    drawInto(counts, background, gamma, buffer);
-    draws.push(stationaryVector(rows, { selfWeight, start }).vector);
-  }
-  return draws;
+  const prior = buildAttentionPrior(counts, options.background);
+  const n = prior.n;
+  const start = options.start ?? new Float64Array(n).fill(n > 0 ? 1 / n : 0);
+  const plan = drawPlan(counts, prior, {
+    selfWeight: options.selfWeight,
+    seed: options.seed,
+    start,
+  });
+  const { shares } = drawShares(plan, 0, samples);
+  const out: Float64Array[] = [];
+  for (let k = 0; k < samples; k++) out.push(shares.slice(k * n, (k + 1) * n));
+  return out;
 }

@@ -16,15 +16,6 @@
 import { PlumblineError } from "../domain/errors.js";
 import { type AttentionRows, leftMultiply } from "./attention-rows.js";
 
-/**
- * Posterior draws are solved to 1e-9 in L1, the tolerance DESIGN.md §4.5 allows for them (the
- * point estimate to 1e-12), each warm-started from the point estimate: interval ends are
- * quantiles over draws that differ from each other by 1e-2 or more and are reported to 6
- * decimals, so 1e-9 leaves them unchanged; measured at 300/30k (bench channel, 40 draws): 15.4
- * rounds a draw against 20.6 at 1e-12 (13.5 at the looser 1e-8 used before).
- */
-export const DRAW_TOLERANCE = 1e-9;
-
 export interface StationaryOptions {
   /** σ of DESIGN.md §4.4, in [0, 1). */
   readonly selfWeight: number;

@@ -3,6 +3,12 @@
  * Randomness is injected: every draw in plumbline comes from an `Rng` made from a seed.
  * The default generator is xoshiro128** (Blackman & Vigna 2018, "Scrambled linear pseudorandom
  * number generators"), seeded through splitmix32, giving doubles with 53 random bits.
+ * Posterior draw k has its own stream (DESIGN.md §4.6, §4.11): `createDrawRng(seed, k)` seeds
+ * xoshiro128** from SplitMix64 (Steele, Lea & Flood 2014, "Fast splittable pseudorandom number
+ * generators", OOPSLA '14): the k-th output of SplitMix64(seed) — computable directly as
+ * mix64(seed + (k+1)·γ), a counter-based derivation — seeds a second SplitMix64 whose first two
+ * outputs are the 128-bit state. Any range of draws can thus be computed on its own, in any order
+ * or thread, with the same result.
  */
 
 export interface Rng {
@@ -30,10 +36,44 @@ function splitmix32(state: number): () => number {
  */
 export function createSeededRng(seed: number): Rng {
   const init = splitmix32(Math.trunc(seed) >>> 0);
-  let a = init() | 0;
-  let b = init() | 0;
-  let c = init() | 0;
-  let d = init() | 0;
+  return xoshiro128(init(), init(), init(), init());
+}
+
+const MASK64 = (1n << 64n) - 1n;
+const GOLDEN_GAMMA = 0x9e3779b97f4a7c15n;
+
+/** The SplitMix64 output function (Steele, Lea & Flood 2014, "mix64"). */
+function mix64(state: bigint): bigint {
+  let z = state & MASK64;
+  z = ((z ^ (z >> 30n)) * 0xbf58476d1ce4e5b9n) & MASK64;
+  z = ((z ^ (z >> 27n)) * 0x94d049bb133111ebn) & MASK64;
+  return z ^ (z >> 31n);
+}
+
+/**
+ * The generator of posterior draw k (k ≥ 0) for `seed`: independent of every other draw's, and
+ * the same whichever thread computes it.
+ */
+export function createDrawRng(seed: number, k: number): Rng {
+  if (!Number.isInteger(k) || k < 0)
+    throw new RangeError(`draw index must be an integer ≥ 0, got ${k}`);
+  const root = BigInt(Math.trunc(seed) >>> 0);
+  const streamSeed = mix64(root + BigInt(k + 1) * GOLDEN_GAMMA);
+  const first = mix64(streamSeed + GOLDEN_GAMMA);
+  const second = mix64(streamSeed + 2n * GOLDEN_GAMMA);
+  return xoshiro128(
+    Number(first & 0xffffffffn),
+    Number(first >> 32n),
+    Number(second & 0xffffffffn),
+    Number(second >> 32n),
+  );
+}
+
+function xoshiro128(s0: number, s1: number, s2: number, s3: number): Rng {
+  let a = s0 | 0;
+  let b = s1 | 0;
+  let c = s2 | 0;
+  let d = s3 | 0;
   if ((a | b | c | d) === 0) a = 1;
   const next32 = (): number => {
     const result = Math.imul(rotl(Math.imul(b, 5), 7), 9);

@@ -71,7 +71,7 @@ export function summaryBlocks(
     rows.push({
       label: "HHI (analogy)",
       value: `${report.hhi}`,
-      detail: `would count as ${report.concentration === "moderate" ? "moderately concentrated" : report.concentration === "high" ? "highly concentrated" : "unconcentrated"} under the 2010 U.S. merger guidelines`,
+      detail: `would count as ${report.concentration === "high" ? "highly concentrated (above 1,800)" : "not highly concentrated (1,800 or below)"} under the 2023 U.S. merger guidelines`,
     });
   }
   blocks.push({ kind: "note", text: plainReading(report) });

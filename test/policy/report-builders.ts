@@ -28,6 +28,8 @@ export function makeReport(options: {
       replyWeight: 1,
       mentionWeight: 1,
       background: 1,
+      priorStrength: 1,
+      posterior: "exact",
       selfWeight: 0.5,
       samples: 400,
       interval: 0.9,

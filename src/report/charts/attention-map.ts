@@ -157,7 +157,10 @@ export function attentionMapChart(args: {
   const radii = shown.map((e) => nodeRadius(e.share, maxShare));
   const edges = attentionEdges({
     input: args.input,
-    background: report.settings.background,
+    background:
+      typeof report.settings.background === "number"
+        ? report.settings.background
+        : (report.settings.priorStrength ?? 0),
     shown: shown.map((e) => e.member),
   });
   const maxWeight = edges.length > 0 ? edges[0].weight : 0;
