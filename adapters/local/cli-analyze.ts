@@ -47,14 +47,15 @@ async function prepare(
  */
 async function runOnPool<J extends AnalysisJob>(io: CliIo, job: J): Promise<ResultOf<J>> {
   const pool = new WorkerPool({ size: poolSize(io.env) });
-  const onProgress = progressLine({ now: () => performance.now(), write: io.stderr });
+  const now = io.now;
+  const onProgress = now ? progressLine({ now, write: io.stderr }) : undefined;
   try {
     if (job.kind === "analyze" && !pool.inThread) {
       return runJob(job, onProgress, (plan, samples) =>
         pool.drawRangesSync(plan, samples, onProgress),
       );
     }
-    return await pool.run(job, { onProgress });
+    return await pool.run(job, onProgress ? { onProgress } : {});
   } finally {
     await pool.close();
   }
