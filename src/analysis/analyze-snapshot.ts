@@ -91,6 +91,7 @@ export function analyzeSnapshotDetailed(
     selfWeight: settings.selfWeight,
     samples: settings.samples,
     seed,
+    ...(input.priorGroups ? { groupOf: input.priorGroups } : {}),
     ...(options.transform ? { transform: options.transform } : {}),
     ...(options.onDraw ? { onDraw: options.onDraw } : {}),
     ...(options.drawRanges ? { drawRanges: options.drawRanges } : {}),

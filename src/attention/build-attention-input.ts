@@ -16,7 +16,7 @@ import type { AnalysisSettings } from "../domain/settings.js";
 import { deriveSeed } from "../ports/rng.js";
 import { findClosedGroups } from "./closed-groups.js";
 import { collectSignals, type Signal } from "./collect-signals.js";
-import { louvainClusters } from "./louvain-clusters.js";
+import { type Clusters, louvainClusters } from "./louvain-clusters.js";
 
 /**
  * Builds the `AttentionInput` of `snapshot` at `settings.until`. The Louvain seed is
@@ -37,14 +37,29 @@ export function buildAttentionInput(
   const counts = countMatrixFromSignals(set.members, set.signals);
   const wantClusters = settings.clusters && set.labels.every((label) => label === null);
   const seed = options.seed ?? settings.seed ?? deriveSeed(snapshot.channel, settings.until);
+  const clusters = louvainClusters(counts, { seed });
   return {
     counts,
     signals: set.count,
     closedGroups: findClosedGroups(counts),
     named: set.named,
     labels: set.labels,
-    clusters: wantClusters ? louvainClusters(counts, { seed }) : null,
+    clusters: wantClusters ? clusters : null,
+    priorGroups: priorGroupsOf(counts.members.length, clusters),
   };
+}
+
+/** Below this modularity a partition is treated as no group structure (common practice, ~0.3). */
+export const PRIOR_GROUP_MODULARITY = 0.3;
+
+/** Member → prior group: the Louvain clusters when their modularity is at least 0.3, else one group. */
+export function priorGroupsOf(n: number, clusters: Clusters | null): Int32Array {
+  const out = new Int32Array(n);
+  if (!clusters || !(clusters.modularity >= PRIOR_GROUP_MODULARITY)) return out;
+  clusters.groups.forEach((members, g) => {
+    for (const i of members) out[i] = g;
+  });
+  return out;
 }
 
 /**

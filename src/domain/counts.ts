@@ -37,6 +37,12 @@ export interface AttentionInput {
   readonly named: readonly boolean[];
   /** Group label at `until` for each active member, or null. */
   readonly labels: readonly (string | null)[];
+  /**
+   * Member → prior group (DESIGN.md §4.4): seeded Louvain clusters of C + Cᵀ when their modularity
+   * is at least 0.3, else 0 for everyone. Each row's prior follows the attention its group gives.
+   * Absent: one group.
+   */
+  readonly priorGroups?: Int32Array;
   /** Louvain clusters on C + Cᵀ when requested and no labels exist; else null. */
   readonly clusters: { readonly groups: IndexGroups; readonly modularity: number } | null;
 }

@@ -37,6 +37,8 @@ export interface InfluenceOptions {
   readonly drawRanges?: DrawRangeRunner;
   /** Called with the number of draws done, about 50 times per analysis. */
   readonly onDraw?: (done: number) => void;
+  /** Member → group whose attention profile is the member's prior (default: one group). */
+  readonly groupOf?: Int32Array;
 }
 
 export interface InfluenceResult {
@@ -86,7 +88,7 @@ function drawHere(
 }
 
 export function analyzeInfluence(counts: CountMatrix, options: InfluenceOptions): InfluenceResult {
-  const prior = buildAttentionPrior(counts, options.background);
+  const prior = buildAttentionPrior(counts, options.background, options.groupOf);
   const rows0 = pointRowsFromPrior(counts, prior);
   const rows = options.transform ? options.transform(rows0) : rows0;
   const point = stationaryVector(rows, { selfWeight: options.selfWeight }).vector;

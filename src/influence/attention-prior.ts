@@ -32,11 +32,11 @@ export type Background = number | "auto";
 
 export const PRIOR_DEFAULTS = {
   /** Hyperprior a₀ per member on the profile m. */
-  profileSmoothingPerMember: 0.3,
+  profileSmoothingPerMember: 1,
   gridPoints: 25,
   gridLow: 0.1,
-  /** Grid top = gridHighPerMember·(n − 1). */
-  gridHighPerMember: 10,
+  /** Grid top = gridHighPerMember·(n − 1): no row is assumed more even than Dirichlet(1). */
+  gridHighPerMember: 1,
   /** Profile ↔ strength passes (the design effect depends on α, α's likelihood on m). */
   passes: 2,
 } as const;
@@ -47,10 +47,12 @@ export interface AttentionPrior {
   readonly effective: Float64Array;
   /** ĉ_i = Σ_j Ĉ_ij. */
   readonly rowTotals: Float64Array;
-  /** Dirichlet posterior parameters of the profile m (length n). */
+  /** Dirichlet posterior parameters of each group's profile (groups × n). */
   readonly concentration: Float64Array;
-  /** Posterior mean of m (sums to 1). */
+  /** Posterior means of the profiles (groups × n, each block sums to 1). */
   readonly profile: Float64Array;
+  /** Each row's group (its profile's index). */
+  readonly profileOf: Int32Array;
   /** Strength grid (one value when fixed). */
   readonly grid: Float64Array;
   /** Per row, cumulative posterior weights over the grid (n × grid.length, each row ends at 1). */
@@ -88,7 +90,7 @@ export function effectiveCounts(counts: CountMatrix): Float64Array {
 function strengthGrid(n: number, background: Background): Float64Array {
   if (background !== "auto") return Float64Array.of(background);
   const { gridPoints, gridLow, gridHighPerMember } = PRIOR_DEFAULTS;
-  const high = Math.max(gridLow * 10, gridHighPerMember * Math.max(1, n - 1));
+  const high = Math.max(1, gridHighPerMember * (n - 1));
   const grid = new Float64Array(gridPoints);
   const a = Math.log(gridLow);
   const b = Math.log(high);
@@ -96,24 +98,42 @@ function strengthGrid(n: number, background: Background): Float64Array {
   return grid;
 }
 
-function profileConcentration(
+/**
+ * Dirichlet parameters of each group's profile (groups × n): the group's rows' counts weighted by
+ * the design effect d_i, plus a₀ = `profileSmoothingPerMember`·n pseudo-signals spread like the
+ * channel-wide profile (itself smoothed by a₀ per member).
+ */
+function profileConcentrations(
   counts: CountMatrix,
   effective: Float64Array,
   rowTotals: Float64Array,
   strength: Float64Array,
+  groupOf: Int32Array,
+  groups: number,
 ): Float64Array {
   const n = counts.members.length;
-  const out = new Float64Array(n).fill(PRIOR_DEFAULTS.profileSmoothingPerMember);
+  const a0 = PRIOR_DEFAULTS.profileSmoothingPerMember;
+  const own = new Float64Array(groups * n);
+  const channel = new Float64Array(n).fill(a0);
   for (let i = 0; i < n; i++) {
     const c = rowTotals[i];
     if (!(c > 0)) continue;
     const a = strength[i];
     const d = Math.min(1, (1 + a) / (c + a));
+    const base = groupOf[i] * n;
     for (let k = counts.rowPtr[i]; k < counts.rowPtr[i + 1]; k++) {
-      out[counts.colIdx[k]] += d * effective[k];
+      const w = d * effective[k];
+      own[base + counts.colIdx[k]] += w;
+      channel[counts.colIdx[k]] += w;
     }
   }
-  return out;
+  let total = 0;
+  for (let j = 0; j < n; j++) total += channel[j];
+  const spread = (a0 * n) / total;
+  for (let g = 0; g < groups; g++) {
+    for (let j = 0; j < n; j++) own[g * n + j] += spread * channel[j];
+  }
+  return own;
 }
 
 /**
@@ -127,20 +147,34 @@ function rowLogLikelihood(
   total: number,
   alpha: number,
   profile: Float64Array,
+  base: number,
 ): number {
-  const scale = alpha / (1 - profile[i]);
+  const scale = alpha / (1 - profile[base + i]);
   let sum = logGamma(alpha) - logGamma(total + alpha);
   for (let k = counts.rowPtr[i]; k < counts.rowPtr[i + 1]; k++) {
-    const a = scale * profile[counts.colIdx[k]];
+    const a = scale * profile[base + counts.colIdx[k]];
     sum += logGamma(effective[k] + a) - logGamma(a);
   }
   return sum;
 }
 
-/** Builds the prior of DESIGN.md §4.4 for `counts`. */
-export function buildAttentionPrior(counts: CountMatrix, background: Background): AttentionPrior {
+/**
+ * Builds the prior of DESIGN.md §4.4 for `counts`. `groupOf` (member → group index, groups
+ * numbered from 0) gives each row the profile of attention its own group gives; absent = one
+ * channel-wide profile.
+ */
+export function buildAttentionPrior(
+  counts: CountMatrix,
+  background: Background,
+  groupOf?: Int32Array,
+): AttentionPrior {
   checkBackground(background);
   const n = counts.members.length;
+  const groupIndex = groupOf ?? new Int32Array(n);
+  if (groupIndex.length !== n)
+    throw new RangeError(`groupOf has ${groupIndex.length} entries, expected ${n}`);
+  let groups = 1;
+  for (let i = 0; i < n; i++) groups = Math.max(groups, groupIndex[i] + 1);
   const effective = effectiveCounts(counts);
   const rowTotals = new Float64Array(n);
   for (let i = 0; i < n; i++) {
@@ -152,24 +186,33 @@ export function buildAttentionPrior(counts: CountMatrix, background: Background)
   const G = grid.length;
   const cumulative = new Float64Array(n * G);
   const strength = new Float64Array(n);
-  const geometricMiddle = Math.sqrt(grid[0] * grid[G - 1]);
-  strength.fill(G === 1 ? grid[0] : geometricMiddle);
-  let concentration = profileConcentration(counts, effective, rowTotals, strength);
-  let profile = normalised(concentration);
+  strength.fill(G === 1 ? grid[0] : Math.sqrt(grid[0] * grid[G - 1]));
+  let concentration: Float64Array = new Float64Array(0);
+  let profile: Float64Array = new Float64Array(0);
   const passes = G === 1 ? 1 : PRIOR_DEFAULTS.passes;
   const logs = new Float64Array(G);
   for (let pass = 0; pass < passes; pass++) {
+    concentration = profileConcentrations(
+      counts,
+      effective,
+      rowTotals,
+      strength,
+      groupIndex,
+      groups,
+    );
+    profile = normalisedBlocks(concentration, n);
     for (let i = 0; i < n; i++) {
       if (G === 1) {
         cumulative[i] = 1;
         continue;
       }
+      const base = groupIndex[i] * n;
       let max = Number.NEGATIVE_INFINITY;
       for (let g = 0; g < G; g++) {
         // A silent row's likelihood is flat: its posterior is the grid prior.
         const log =
           rowTotals[i] > 0
-            ? rowLogLikelihood(counts, effective, i, rowTotals[i], grid[g], profile)
+            ? rowLogLikelihood(counts, effective, i, rowTotals[i], grid[g], profile, base)
             : 0;
         logs[g] = log;
         if (log > max) max = log;
@@ -190,8 +233,6 @@ export function buildAttentionPrior(counts: CountMatrix, background: Background)
       cumulative[i * G + G - 1] = 1;
       strength[i] = Math.exp(logMean / total);
     }
-    concentration = profileConcentration(counts, effective, rowTotals, strength);
-    profile = normalised(concentration);
   }
   return {
     n,
@@ -199,6 +240,7 @@ export function buildAttentionPrior(counts: CountMatrix, background: Background)
     rowTotals,
     concentration,
     profile,
+    profileOf: groupIndex,
     grid,
     cumulative,
     strength,
@@ -206,11 +248,13 @@ export function buildAttentionPrior(counts: CountMatrix, background: Background)
   };
 }
 
-function normalised(x: Float64Array): Float64Array {
-  let sum = 0;
-  for (let i = 0; i < x.length; i++) sum += x[i];
+function normalisedBlocks(x: Float64Array, n: number): Float64Array {
   const out = new Float64Array(x.length);
-  for (let i = 0; i < x.length; i++) out[i] = sum > 0 ? x[i] / sum : 1 / x.length;
+  for (let base = 0; base < x.length; base += n) {
+    let sum = 0;
+    for (let j = 0; j < n; j++) sum += x[base + j];
+    for (let j = 0; j < n; j++) out[base + j] = sum > 0 ? x[base + j] / sum : 1 / n;
+  }
   return out;
 }
 
@@ -231,12 +275,12 @@ export function pointRowsFromPrior(counts: CountMatrix, prior: AttentionPrior): 
   const { rowPtr, colIdx } = counts;
   const values = new Float64Array(counts.values.length);
   const rest = new Float64Array(n);
-  const profile = prior.profile;
+  const { profile, profileOf } = prior;
   if (n < 2) return { n, rowPtr, colIdx, values, rest };
   for (let i = 0; i < n; i++) {
     const total = prior.rowTotals[i];
     const alpha = prior.strength[i];
-    const off = 1 - profile[i];
+    const off = 1 - profile[profileOf[i] * n + i];
     if (!(total > 0)) {
       rest[i] = 1 / off;
       continue;
@@ -245,5 +289,5 @@ export function pointRowsFromPrior(counts: CountMatrix, prior: AttentionPrior): 
     for (let k = rowPtr[i]; k < rowPtr[i + 1]; k++) values[k] = prior.effective[k] / denominator;
     rest[i] = alpha / denominator / off;
   }
-  return { n, rowPtr, colIdx, values, rest, profile };
+  return { n, rowPtr, colIdx, values, rest, profile, profileOf };
 }

@@ -29,8 +29,20 @@ export interface AttentionRows {
   readonly values: Float64Array;
   /** Length n: the weight row i puts on every other member j (times p_j) on top of its stored entries. */
   readonly rest: Float64Array;
-  /** Length n, non-negative: the profile p the rest follows; absent = 1 for every member. */
+  /**
+   * Non-negative profiles the rest follows, `profiles` × n values (profile q occupies
+   * [q·n, (q+1)·n)); absent = 1 for every member.
+   */
   readonly profile?: Float64Array;
+  /** Per row, the index of its profile (length n); absent = profile 0 for every row. */
+  readonly profileOf?: Int32Array;
+}
+
+/** p_j of row i's profile (1 when the rows have no profile). */
+export function profileValue(rows: AttentionRows, i: number, j: number): number {
+  const { profile, profileOf } = rows;
+  if (!profile) return 1;
+  return profile[(profileOf ? profileOf[i] : 0) * rows.n + j];
 }
 
 /** Guards the background setting β of DESIGN.md §4. */
@@ -109,11 +121,11 @@ export function rowsFromDense(matrix: readonly (readonly number[])[]): Attention
 
 /** T = σI + (1−σ)A as a dense array, for small cases and the dense eigen-solver. */
 export function denseTransition(rows: AttentionRows, selfWeight: number): number[][] {
-  const { n, rowPtr, colIdx, values, rest, profile } = rows;
+  const { n, rowPtr, colIdx, values, rest } = rows;
   const out: number[][] = [];
   for (let i = 0; i < n; i++) {
     const row = new Array<number>(n);
-    for (let j = 0; j < n; j++) row[j] = (1 - selfWeight) * rest[i] * (profile ? profile[j] : 1);
+    for (let j = 0; j < n; j++) row[j] = (1 - selfWeight) * rest[i] * profileValue(rows, i, j);
     row[i] = selfWeight;
     for (let k = rowPtr[i]; k < rowPtr[i + 1]; k++) row[colIdx[k]] += (1 - selfWeight) * values[k];
     out.push(row);
@@ -122,19 +134,36 @@ export function denseTransition(rows: AttentionRows, selfWeight: number): number
 }
 
 /**
- * out = x·A in O(nonzeros + n): (xA)_j = Σ_i x_i values_ij + p_j(R − x_j rest_j),
- * R = Σ_i x_i rest_i. `out` must not be `x`. Returns `out`.
+ * out = x·A in O(nonzeros + q·n) for q profiles: (xA)_j = Σ_i x_i values_ij
+ * + Σ_c p^c_j R_c − x_j rest_j p^{c(j)}_j, R_c = Σ_{i in profile c} x_i rest_i.
+ * `out` must not be `x`. Returns `out`.
  */
 export function leftMultiply(
   rows: AttentionRows,
   x: Float64Array,
   out: Float64Array,
 ): Float64Array {
-  const { n, rowPtr, colIdx, values, rest, profile } = rows;
-  let restTotal = 0;
-  for (let i = 0; i < n; i++) restTotal += x[i] * rest[i];
-  if (profile) for (let j = 0; j < n; j++) out[j] = profile[j] * (restTotal - x[j] * rest[j]);
-  else for (let j = 0; j < n; j++) out[j] = restTotal - x[j] * rest[j];
+  const { n, rowPtr, colIdx, values, rest, profile, profileOf } = rows;
+  if (!profile) {
+    let restTotal = 0;
+    for (let i = 0; i < n; i++) restTotal += x[i] * rest[i];
+    for (let j = 0; j < n; j++) out[j] = restTotal - x[j] * rest[j];
+  } else if (!profileOf) {
+    let restTotal = 0;
+    for (let i = 0; i < n; i++) restTotal += x[i] * rest[i];
+    for (let j = 0; j < n; j++) out[j] = profile[j] * (restTotal - x[j] * rest[j]);
+  } else {
+    const q = profile.length / n;
+    const totals = new Float64Array(q);
+    for (let i = 0; i < n; i++) totals[profileOf[i]] += x[i] * rest[i];
+    for (let j = 0; j < n; j++) out[j] = -x[j] * rest[j] * profile[profileOf[j] * n + j];
+    for (let c = 0; c < q; c++) {
+      const r = totals[c];
+      if (r === 0) continue;
+      const base = c * n;
+      for (let j = 0; j < n; j++) out[j] += r * profile[base + j];
+    }
+  }
   for (let i = 0; i < n; i++) {
     const xi = x[i];
     if (xi === 0) continue;
@@ -146,7 +175,7 @@ export function leftMultiply(
 
 /** A_ij for j ≠ i, the stored entry (if any) plus the rest part. */
 export function rowEntry(rows: AttentionRows, i: number, j: number): number {
-  let a = i === j ? 0 : rows.rest[i] * (rows.profile ? rows.profile[j] : 1);
+  let a = i === j ? 0 : rows.rest[i] * profileValue(rows, i, j);
   for (let k = rows.rowPtr[i]; k < rows.rowPtr[i + 1]; k++)
     if (rows.colIdx[k] === j) a += rows.values[k];
   return a;
@@ -158,15 +187,15 @@ export function rowEntry(rows: AttentionRows, i: number, j: number): number {
  * unobserved targets as one block of equal parts (the what-if cap).
  */
 export function withUniformRest(rows: AttentionRows): AttentionRows {
-  const { n, rowPtr, colIdx, values, rest, profile } = rows;
-  if (!profile) return rows;
+  const { n, rowPtr, colIdx, values, rest } = rows;
+  if (!rows.profile) return rows;
   const ptr = new Int32Array(n + 1);
   const cols = new Int32Array(n * Math.max(0, n - 1));
   const vals = new Float64Array(n * Math.max(0, n - 1));
   const dense = new Float64Array(n);
   let p = 0;
   for (let i = 0; i < n; i++) {
-    for (let j = 0; j < n; j++) dense[j] = rest[i] * profile[j];
+    for (let j = 0; j < n; j++) dense[j] = rest[i] * profileValue(rows, i, j);
     for (let k = rowPtr[i]; k < rowPtr[i + 1]; k++) dense[colIdx[k]] += values[k];
     for (let j = 0; j < n; j++) {
       if (j === i) continue;

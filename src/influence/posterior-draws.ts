@@ -3,7 +3,8 @@
  * Posterior draws of the influence shares (DESIGN.md §4.6, version 2). Each draw k, on its own
  * random stream `createDrawRng(seed, k)`:
  *
- * 1. takes a profile m from its Dirichlet posterior (attention-prior), as normalised Gamma variates;
+ * 1. takes each group's profile m from its Dirichlet posterior (attention-prior), as normalised
+ *    Gamma variates;
  * 2. takes each row's prior strength α_i from its grid posterior (one uniform per row);
  * 3. draws every cell of every row from Dirichlet(Ĉ_i + α_i·m^(i)) (Noé 2008, "Probability
  *    distributions of molecular observables computed from Markov models", J. Chem. Phys.
@@ -46,8 +47,10 @@ export interface DrawPlan {
   readonly colIdx: Int32Array;
   /** Effective counts Ĉ per stored entry. */
   readonly effective: Float64Array;
-  /** Dirichlet posterior parameters of the profile m. */
+  /** Dirichlet posterior parameters of each group's profile (groups × n). */
   readonly concentration: Float64Array;
+  /** Each row's group: the profile its prior follows. */
+  readonly profileOf: Int32Array;
   readonly grid: Float64Array;
   /** n × grid.length cumulative weights of each row's prior strength. */
   readonly cumulative: Float64Array;
@@ -80,6 +83,7 @@ export function drawPlan(
     colIdx: counts.colIdx,
     effective: prior.effective,
     concentration: prior.concentration,
+    profileOf: prior.profileOf,
     grid: prior.grid,
     cumulative: prior.cumulative,
     selfWeight: options.selfWeight,
@@ -128,32 +132,37 @@ function searchCumulative(cumulative: Float64Array, lo: number, hi: number, u: n
   return a - lo;
 }
 
-/** Fills `out` with one profile drawn from Dirichlet(concentration); returns its cumulative sums. */
-function drawProfile(
+/**
+ * Fills each n-block of `out` with a profile drawn from Dirichlet(that block of `concentration`)
+ * and `cumulative` with its running sums.
+ */
+function drawProfiles(
   concentration: Float64Array,
+  n: number,
   gamma: GammaSampler,
   out: Float64Array,
   cumulative: Float64Array,
 ): void {
-  const n = concentration.length;
-  let max = Number.NEGATIVE_INFINITY;
-  for (let j = 0; j < n; j++) {
-    const log = gamma.logGamma(concentration[j]);
-    out[j] = log;
-    if (log > max) max = log;
+  for (let base = 0; base < concentration.length; base += n) {
+    let max = Number.NEGATIVE_INFINITY;
+    for (let j = base; j < base + n; j++) {
+      const log = gamma.logGamma(concentration[j]);
+      out[j] = log;
+      if (log > max) max = log;
+    }
+    let total = 0;
+    for (let j = base; j < base + n; j++) {
+      out[j] = Math.exp(out[j] - max);
+      total += out[j];
+    }
+    let running = 0;
+    for (let j = base; j < base + n; j++) {
+      out[j] /= total;
+      running += out[j];
+      cumulative[j] = running;
+    }
+    cumulative[base + n - 1] = 1;
   }
-  let total = 0;
-  for (let j = 0; j < n; j++) {
-    out[j] = Math.exp(out[j] - max);
-    total += out[j];
-  }
-  let running = 0;
-  for (let j = 0; j < n; j++) {
-    out[j] /= total;
-    running += out[j];
-    cumulative[j] = running;
-  }
-  cumulative[n - 1] = 1;
 }
 
 interface Scratch {
@@ -181,7 +190,8 @@ function drawRow(
   const { n, rowPtr, colIdx, effective } = plan;
   const lo = rowPtr[i];
   const hi = rowPtr[i + 1];
-  const off = 1 - m[i];
+  const base = plan.profileOf[i] * n;
+  const off = 1 - m[base + i];
   const start = rows.size;
   if (alpha <= 0) {
     if (hi === lo) {
@@ -216,7 +226,7 @@ function drawRow(
     let atomCount = 0;
     for (let j = 0; j < n; j++) {
       if (j === i) continue;
-      const shape = scale * m[j];
+      const shape = scale * m[base + j];
       if (!(shape > 0)) continue;
       const log = gamma.logGamma(shape);
       scratch.atoms[atomCount] = j;
@@ -256,7 +266,7 @@ function drawRow(
     const piece = remaining * v;
     remaining -= piece;
     let j = i;
-    while (j === i) j = searchCumulative(mCumulative, 0, n, next());
+    while (j === i) j = searchCumulative(mCumulative, base, base + n, next());
     rows.push(j, prior * piece);
   }
   for (let p = start; p < rows.size; p++) rows.vals[p] /= total;
@@ -277,8 +287,8 @@ function rangeScratch(plan: DrawPlan): RangeScratch {
     logs: new Float64Array(Math.max(1, maxRow)),
     atoms: new Int32Array(n),
     atomLogs: new Float64Array(n),
-    m: new Float64Array(n),
-    mCumulative: new Float64Array(n),
+    m: new Float64Array(plan.concentration.length),
+    mCumulative: new Float64Array(plan.concentration.length),
   };
 }
 
@@ -289,7 +299,7 @@ function drawMatrixInto(plan: DrawPlan, k: number, scratch: RangeScratch): Atten
   const rng = createDrawRng(plan.seed, k);
   const gamma = createGammaSampler(rng);
   const next = () => rng.next();
-  drawProfile(concentration, gamma, m, mCumulative);
+  drawProfiles(concentration, n, gamma, m, mCumulative);
   const rows = new RowBuilder(n, plan.effective.length + 8 * n);
   const exact = posteriorMethod(n) === "exact";
   const stickCost = Math.log(1 / STICK_REMAINDER);
@@ -307,6 +317,7 @@ function drawMatrixInto(plan: DrawPlan, k: number, scratch: RangeScratch): Atten
     values: rows.vals.subarray(0, rows.size),
     rest: rows.rest,
     profile: Float64Array.from(m),
+    profileOf: plan.profileOf,
   };
 }
 
@@ -367,13 +378,14 @@ export function posteriorShares(
     readonly samples: number;
     readonly seed: number;
     readonly start?: Float64Array;
+    readonly groupOf?: Int32Array;
   },
 ): Float64Array[] {
   const { samples } = options;
   if (!Number.isInteger(samples) || samples < 0) {
     throw new RangeError(`samples must be a non-negative integer, got ${samples}`);
   }
-  const prior = buildAttentionPrior(counts, options.background);
+  const prior = buildAttentionPrior(counts, options.background, options.groupOf);
   const n = prior.n;
   const start = options.start ?? new Float64Array(n).fill(n > 0 ? 1 / n : 0);
   const plan = drawPlan(counts, prior, {

@@ -160,6 +160,7 @@ describe("Dirichlet rows of the posterior draw (every cell drawn)", () => {
         colIdx: counts.colIdx,
         effective: counts.values,
         concentration: Float64Array.from(profile, (m) => m * 1e12),
+        profileOf: new Int32Array(n),
         // Grid (0, α): row 0 takes α, the other rows 0 (no prior, nothing to draw), for speed.
         grid: Float64Array.of(0, alpha),
         cumulative: Float64Array.from({ length: 2 * n }, (_, q) => (q === 0 ? 0 : 1)),

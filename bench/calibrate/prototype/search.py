@@ -298,6 +298,79 @@ def row_log_marginal(Ce, mr, grid, log_prior):
     return lp
 
 
+def louvain_groups(Ce, seed=7):
+    import networkx as nx
+    n = Ce.shape[0]
+    W = Ce + Ce.T
+    G = nx.Graph()
+    G.add_nodes_from(range(n))
+    for i, j in zip(*np.nonzero(np.triu(W, 1))):
+        G.add_edge(int(i), int(j), weight=float(W[i, j]))
+    comms = nx.community.louvain_communities(G, weight="weight", seed=seed)
+    label = np.zeros(n, dtype=int)
+    for c, members in enumerate(sorted(comms, key=min)):
+        for i in members:
+            label[i] = c
+    return label
+
+
+def rowclust_draws(Ce, K, rng, a0, lo, hi_per_n, points, min_modularity):
+    """Per-row prior strength (grid posterior) with the profile of attention *given* by the row's
+    Louvain cluster (each cluster's profile drawn from its own Dirichlet posterior, smoothed toward
+    the channel profile)."""
+    import networkx as nx
+    n = Ce.shape[0]
+    off = ~np.eye(n, dtype=bool)
+    grid = np.exp(np.linspace(np.log(lo), np.log(hi_per_n * max(n - 1, 1)), points))
+    log_prior = np.zeros(points)
+    label = louvain_groups(Ce)
+    W = Ce + Ce.T
+    Gx = nx.Graph()
+    Gx.add_nodes_from(range(n))
+    for i, j in zip(*np.nonzero(np.triu(W, 1))):
+        Gx.add_edge(int(i), int(j), weight=float(W[i, j]))
+    groups = [set(np.nonzero(label == c)[0]) for c in range(label.max() + 1)]
+    q = nx.community.modularity(Gx, groups, weight="weight") if len(groups) > 1 else 0
+    if q < min_modularity:
+        label[:] = 0
+    k = label.max() + 1
+    c = Ce.sum(axis=1)
+    abar = np.full(n, float(np.sqrt(grid[0] * grid[-1])))
+    for _ in range(2):
+        factor = np.where(c > 0, np.minimum(1.0, (1 + abar) / (c + abar)), 0.0)
+        weighted = Ce * factor[:, None]
+        glob = weighted.sum(axis=0) + a0 / n
+        gm = glob / glob.sum()
+        concs = np.stack([weighted[label == g].sum(axis=0) + a0 * gm for g in range(k)])
+        means = concs / concs.sum(axis=1, keepdims=True)
+        mr = means[label].copy()
+        np.fill_diagonal(mr, 0)
+        mr /= mr.sum(axis=1, keepdims=True)
+        lp = row_log_marginal(Ce, mr, grid, log_prior)
+        Wt = np.exp(lp - lp.max(axis=1, keepdims=True))
+        Wt /= Wt.sum(axis=1, keepdims=True)
+        abar = np.exp(Wt @ np.log(grid))
+    point = point_rows_vec(Ce, abar, mr)
+    cdf = np.cumsum(Wt, axis=1)
+    u = rng.random((K, n, 1))
+    idx = np.minimum((u > cdf[None]).sum(axis=2), points - 1)
+    alphas = grid[idx]
+    mk = rng.gamma(np.broadcast_to(concs, (K, k, n)))
+    mk /= mk.sum(axis=2, keepdims=True)
+    mrows = mk[:, label, :].copy()
+    mrows[:, ~off] = 0
+    mrows /= mrows.sum(axis=2, keepdims=True)
+    shapes = Ce[None] + alphas[:, :, None] * mrows
+    shapes[:, ~off] = 0
+    G = rng.gamma(np.maximum(shapes, 1e-300))
+    G[:, ~off] = 0
+    A = G / G.sum(axis=2, keepdims=True)
+    T = 0.5 * np.eye(n)[None] + 0.5 * A
+    if ARGS.verbose:
+        print("  clusters", k, "q %.2f" % q, "alpha median", np.median(abar))
+    return stationary(0.5 * np.eye(n) + 0.5 * point), stationary(T)
+
+
 def rowalpha_draws(Ce, K, rng, a0, lo, hi_per_n, points, prior):
     n = Ce.shape[0]
     off = ~np.eye(n, dtype=bool)
@@ -350,6 +423,8 @@ def method_draws(name, Ce, K, rng, alpha, a0, lam):
     off = ~np.eye(n, dtype=bool)
     if name == "rowmix":
         return rowalpha_mix_draws(Ce, K, rng, a0, ARGS.lo, ARGS.hi, ARGS.points, (0.0, 0.25, 0.5, 0.75, 1.0))
+    if name == "rowclust":
+        return rowclust_draws(Ce, K, rng, a0, ARGS.lo, ARGS.hi, ARGS.points, ARGS.minq)
     if name == "rowalpha":
         return rowalpha_draws(Ce, K, rng, a0, ARGS.lo, ARGS.hi, ARGS.points, ARGS.prior)
     if name == "mix":
@@ -488,6 +563,7 @@ def main():
     p.add_argument("--points", type=int, default=25)
     p.add_argument("--prior", default="loguniform")
     p.add_argument("--verbose", action="store_true")
+    p.add_argument("--minq", type=float, default=0.3)
     p.add_argument("--a0pm", type=float, default=None)
     args = p.parse_args()
     global ARGS
