@@ -7,6 +7,12 @@ arrays, sparse products with scipy.sparse, the eigenvalue with ARPACK. Its rando
 numpy's, not plumbline's, so figures agree in distribution (point estimate to the solver
 tolerance), not bit for bit.
 
+Model version mirrored: v1 (uniform background b = beta/(n-1), one aggregated Gamma for a row's
+unobserved cells, raw decayed counts), as on main at 82219e9. Model v2 (profile prior, Kish
+counts, per-cell draws, per-draw streams) landed after this script was written: until the steps
+below are updated, the bench's agreement row reports the difference and the ratio compares
+different models.
+
 Each step names the TypeScript function it mirrors, so a model change is a local edit here:
 
   read_ledger            src/attention/read-event-log.ts + channel-ledger.ts (rules 1-6)
@@ -342,7 +348,9 @@ def main():
     json.dump(report, sys.stdout, indent=2)
     sys.stdout.write("\n")
     print(json.dumps({"peerSteps": laps}), file=sys.stderr)
-    print(f"maxrss {resource.getrusage(resource.RUSAGE_SELF).ru_maxrss}", file=sys.stderr)
+    usage = resource.getrusage(resource.RUSAGE_SELF)
+    print(f"maxrss {usage.ru_maxrss}", file=sys.stderr)
+    print(f"cpu {round((usage.ru_utime + usage.ru_stime) * 1000)}", file=sys.stderr)
 
 
 if __name__ == "__main__":
