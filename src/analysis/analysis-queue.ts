@@ -120,10 +120,14 @@ export class AnalysisQueue implements AnalysisRunner {
     if (this.inFlight >= this.capacity) return Promise.reject(busy());
     const entry: Entry = {
       channel,
-      promise: load().then(async (snapshot) => ({
-        snapshot,
-        result: await this.runner.run({ ...job, snapshot } as unknown as J),
-      })),
+      // The load waits one turn of the event loop, so requests that arrived together with this
+      // one are acknowledged before a synchronous store (SQLite) reads the snapshot.
+      promise: new Promise<void>((resolve) => setImmediate(resolve))
+        .then(load)
+        .then(async (snapshot) => ({
+          snapshot,
+          result: await this.runner.run({ ...job, snapshot } as unknown as J),
+        })),
       doneAt: null,
     };
     this.track(key, entry);
