@@ -6,7 +6,7 @@
  * nothing here knows a platform.
  */
 
-import { analyzeSnapshot } from "../src/analysis/analyze-snapshot.js";
+import { inThreadRunner } from "../src/analysis/analysis-job.js";
 import { readChannelSettings } from "../src/commands/channel-settings-store.js";
 import type {
   CommandContext,
@@ -21,6 +21,7 @@ import type { ChatEvent } from "../src/domain/events.js";
 import { DAY_MS } from "../src/domain/settings.js";
 import { ingest } from "../src/ingest/ingest.js";
 import { noteDecision } from "../src/policy/note-decision.js";
+import type { AnalysisRunner } from "../src/ports/analysis-runner.js";
 import type { ChatPlatform, OutgoingMessage } from "../src/ports/chat-platform.js";
 import type { Clock } from "../src/ports/clock.js";
 import type { Logger } from "../src/ports/logger.js";
@@ -42,6 +43,8 @@ export interface BotOptions {
   readonly reportLink?: (channel: string, reader: string) => string;
   /** Claim lease, look-back and the platform's "certainly not sent" test for the scheduler. */
   readonly scheduling?: Pick<SchedulerDeps, "leaseMs" | "lookbackMs" | "notSent">;
+  /** Where analyses run (serve: the queue over the worker pool); default the calling thread. */
+  readonly analysis?: AnalysisRunner;
 }
 
 export interface Bot {
@@ -57,8 +60,10 @@ export interface Bot {
 
 export function createBot(options: BotOptions): Bot {
   const { store, platform, clock, logger } = options;
+  const analysis: AnalysisRunner = options.analysis ?? inThreadRunner;
   const commandDeps: CommandDeps = {
     store,
+    analysis,
     facilitators: options.facilitators,
     displayName: (id) => platform.displayName(id),
     ...(options.reportLink ? { reportLink: options.reportLink } : {}),
@@ -67,7 +72,10 @@ export function createBot(options: BotOptions): Bot {
   async function analyse(channel: string, until: number) {
     const settings = await readChannelSettings(store, channel);
     const snapshot = await store.loadSnapshot(channel);
-    const report = analyzeSnapshot(snapshot, analysisSettingsFor(settings), { until });
+    const report = await analysis.run(
+      { kind: "analyze", snapshot, settings: analysisSettingsFor(settings), until },
+      { exactUntil: true },
+    );
     return { settings, snapshot, report };
   }
 
@@ -75,9 +83,15 @@ export function createBot(options: BotOptions): Bot {
     const { settings, snapshot, report } = await analyse(channel, slotAt);
     // A window with no opted-in activity at all (e.g. before the bot arrived) gets no digest.
     if (report.members === 0 && report.signals === 0) return null;
-    const previous = analyzeSnapshot(snapshot, analysisSettingsFor(settings), {
-      until: slotAt - 7 * DAY_MS,
-    });
+    const previous = await analysis.run(
+      {
+        kind: "analyze",
+        snapshot,
+        settings: analysisSettingsFor(settings),
+        until: slotAt - 7 * DAY_MS,
+      },
+      { exactUntil: true },
+    );
     const policy = await namingPolicy({
       report,
       deps: commandDeps,
@@ -167,6 +181,7 @@ export function createBot(options: BotOptions): Bot {
           "event rejected by the store",
         );
       }
+      if (result.applied) analysis.invalidate?.(event.channel);
       return result;
     },
     onCommand(context) {

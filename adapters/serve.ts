@@ -8,6 +8,8 @@
  */
 import type { Server } from "node:http";
 import pino from "pino";
+import { AnalysisQueue } from "../src/analysis/analysis-queue.js";
+import { poolSize, WorkerPool } from "../src/analysis/worker-pool.js";
 import { type Config, loadConfig } from "../src/config/load-config.js";
 import { PlumblineError } from "../src/domain/errors.js";
 import { DAY_MS } from "../src/domain/settings.js";
@@ -116,7 +118,17 @@ export async function serve(options: ServeOptions): Promise<RunningServer> {
     logger,
     ...(config.publicUrl ? { publicUrl: config.publicUrl } : {}),
   });
+  // Analyses never run on this event loop (DESIGN.md §8): a warm pool of at least one worker
+  // thread behind the bounded queue.
+  const pool = new WorkerPool({ size: poolSize(options.env), threads: "always" });
+  pool.warm();
+  const analysis = new AnalysisQueue({
+    runner: pool,
+    capacity: 4 * pool.size,
+    now: () => clock.now(),
+  });
   const bot = createBot({
+    analysis,
     store,
     platform,
     clock,
@@ -161,6 +173,7 @@ export async function serve(options: ServeOptions): Promise<RunningServer> {
       await bot.scheduler.stop();
       for (const adapter of adapters) await adapter.stop();
       await new Promise<void>((resolve) => server.close(() => resolve()));
+      await pool.close();
       await store.close();
     },
   };

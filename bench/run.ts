@@ -1,6 +1,7 @@
 /**
  * @module run
- * Entry of `npm run bench` (never part of `npm test`): runs the engine, ingest and Slack benches,
+ * Entry of `npm run bench` (never part of `npm test`): runs the engine, end-to-end peer (numpy/scipy,
+ * bench/peer-bench.ts), ingest and Slack benches (`npm run bench -- peer` runs one section),
  * prints one table per bench and a final summary line `bench: N targets met, M missed`. The ingest
  * and Slack rows get their targets here (from the issues: ≥ 5,000 events/s single-event SQLite
  * ingest, ≥ 1,000 signed Slack events/s over loopback with no non-2xx and counted = distinct).
@@ -10,6 +11,7 @@
 import { availableParallelism, cpus, loadavg } from "node:os";
 import { type BenchRow, benchEngine } from "./engine-bench.js";
 import { benchIngest } from "./ingest-bench.js";
+import { benchPeer } from "./peer-bench.js";
 import { benchSlack } from "./slack-bench.js";
 
 type TableRow = BenchRow;
@@ -96,14 +98,17 @@ async function main(): Promise<void> {
   console.log(
     `plumbline bench — node ${process.version}, ${cpus()[0]?.model ?? "cpu"} × ${availableParallelism()}, load average ${load1.toFixed(2)} at start`,
   );
+  // `npm run bench -- peer engine` runs only the named sections; no names run all of them.
+  const wanted = new Set(process.argv.slice(2));
+  const sections: [string, string, () => Promise<readonly unknown[]>][] = [
+    ["engine", "engine (medians after warm-up; ms unless noted)", benchEngine],
+    ["peer", "end to end against the numpy/scipy peer (same log, same K)", benchPeer],
+    ["ingest", "ingest", benchIngest],
+    ["slack", "slack (signed events over loopback)", benchSlack],
+  ];
   const tables: [string, TableRow[]][] = [];
-  const engine: BenchRow[] = await benchEngine();
-  tables.push(["engine (medians after warm-up; ms unless noted)", engine]);
-  printTable(...tables[0]);
-  for (const [title, run] of [
-    ["ingest", benchIngest],
-    ["slack (signed events over loopback)", benchSlack],
-  ] as const) {
+  for (const [key, title, run] of sections) {
+    if (wanted.size > 0 && !wanted.has(key)) continue;
     const rows = withTargets(await run(), title);
     tables.push([title, rows]);
     printTable(title, rows);

@@ -9,6 +9,8 @@ export interface CliIo {
   readonly stderr: (text: string) => void;
   readonly env: Readonly<Record<string, string | undefined>>;
   readonly cwd: string;
+  /** Monotonic ms for progress lines; without it (tests) no progress line is written. */
+  readonly now?: () => number;
   /** Standard input, for the console; absent in tests that do not type. */
   readonly stdin?: NodeJS.ReadableStream & { readonly isTTY?: boolean };
 }

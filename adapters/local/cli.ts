@@ -159,6 +159,7 @@ if (invokedDirectly) {
     stderr: (t) => process.stderr.write(t),
     env: process.env,
     cwd: process.cwd(),
+    now: () => performance.now(),
   };
   main(process.argv.slice(2), io).then((code) => {
     process.exitCode = code;

@@ -11,7 +11,11 @@ import { PlumblineError } from "../domain/errors.js";
 import type { LedgerSnapshot } from "../domain/ledger.js";
 import type { AnalysisReport } from "../domain/report.js";
 import { type AnalysisSettings, resolveThreshold } from "../domain/settings.js";
-import { analyzeInfluence, type InfluenceResult } from "../influence/analyze-influence.js";
+import {
+  analyzeInfluence,
+  type DrawRangeRunner,
+  type InfluenceResult,
+} from "../influence/analyze-influence.js";
 import type { AttentionRows } from "../influence/attention-rows.js";
 import { deriveSeed } from "../ports/rng.js";
 import {
@@ -26,6 +30,10 @@ export interface AnalyzeOptions {
   readonly until?: number;
   /** Row transform applied before solving (the what-if cap). */
   readonly transform?: (rows: AttentionRows) => AttentionRows;
+  /** Called after each posterior draw with the number done so far (progress lines). */
+  readonly onDraw?: (done: number) => void;
+  /** Where the posterior draws run (the CLI: the worker pool's threads); default here. */
+  readonly drawRanges?: DrawRangeRunner;
 }
 
 /** The report together with the draws behind it, for compare and what-if. */
@@ -85,6 +93,8 @@ export function analyzeSnapshotDetailed(
     seed,
     ...(input.priorGroups ? { groupOf: input.priorGroups } : {}),
     ...(options.transform ? { transform: options.transform } : {}),
+    ...(options.onDraw ? { onDraw: options.onDraw } : {}),
+    ...(options.drawRanges ? { drawRanges: options.drawRanges } : {}),
   });
   return { report: assembleReport(frame, input, influence), input, influence };
 }

@@ -5,9 +5,7 @@
  * channel at `now` with the channel's own settings (DESIGN.md §4).
  */
 
-import { analyzeSnapshot } from "../analysis/analyze-snapshot.js";
-import { comparePeriods } from "../analysis/compare-periods.js";
-import { whatIfCap } from "../analysis/what-if.js";
+import { type AnalyzeJob, inThreadRunner } from "../analysis/analysis-job.js";
 import type { Block } from "../domain/blocks.js";
 import { analysisSettingsFor, type ChannelSettings } from "../domain/channel-settings.js";
 import { type DateRange, parseDateRange, windowAndPrevious } from "../domain/date-range.js";
@@ -33,14 +31,31 @@ export interface ChannelView {
   readonly report: AnalysisReport;
 }
 
+function runner(deps: CommandDeps) {
+  return deps.analysis ?? inThreadRunner;
+}
+
 /** The channel's settings, snapshot and report at `now`. */
 export async function viewChannel(
   context: CommandContext,
   deps: CommandDeps,
 ): Promise<ChannelView> {
   const settings = await readChannelSettings(deps.store, context.channel);
+  const job = {
+    kind: "analyze" as const,
+    settings: analysisSettingsFor(settings),
+    until: context.now,
+  };
+  const analysis = deps.analysis;
+  if (analysis?.runShared !== undefined) {
+    // Askers at once share one snapshot load and one analysis.
+    const { result, snapshot } = await analysis.runShared<AnalyzeJob>(job, context.channel, () =>
+      deps.store.loadSnapshot(context.channel),
+    );
+    return { settings, snapshot, report: result };
+  }
   const snapshot = await deps.store.loadSnapshot(context.channel);
-  const report = analyzeSnapshot(snapshot, analysisSettingsFor(settings), { until: context.now });
+  const report = await runner(deps).run({ ...job, snapshot });
   return { settings, snapshot, report };
 }
 
@@ -119,7 +134,12 @@ export async function compare(
     );
   }
   const snapshot = await deps.store.loadSnapshot(context.channel);
-  const result = comparePeriods(snapshot, analysisSettingsFor(settings), ranges);
+  const result = await runner(deps).run({
+    kind: "compare",
+    snapshot,
+    settings: analysisSettingsFor(settings),
+    ranges,
+  });
   return respond([...compareBlocks(result), { kind: "footer", text: EXPLAIN_POINTER }]);
 }
 
@@ -140,6 +160,12 @@ export async function whatIf(
   }
   const settings = await readChannelSettings(deps.store, context.channel);
   const snapshot = await deps.store.loadSnapshot(context.channel);
-  const result = whatIfCap(snapshot, analysisSettingsFor(settings), { cap, until: context.now });
+  const result = await runner(deps).run({
+    kind: "whatif",
+    snapshot,
+    settings: analysisSettingsFor(settings),
+    cap,
+    until: context.now,
+  });
   return respond([...whatIfBlocks(result), { kind: "footer", text: EXPLAIN_POINTER }]);
 }

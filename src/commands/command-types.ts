@@ -4,6 +4,7 @@
  * platform's request, the dependencies the composition root passes in, and a neutral response
  * the adapter shows privately or posts in the channel.
  */
+import type { AnalysisRunner } from "../ports/analysis-runner.js";
 import type { OutgoingMessage } from "../ports/chat-platform.js";
 import type { Store } from "../ports/store.js";
 
@@ -35,6 +36,8 @@ export interface CommandDeps {
   readonly displayName?: (platformId: string) => Promise<string | null>;
   /** A signed 24-hour link to the channel's report page for this reader; absent when not served. */
   readonly reportLink?: (channel: string, reader: string) => string;
+  /** Where analyses run (serve: the bounded queue over the worker pool); default in-thread. */
+  readonly analysis?: AnalysisRunner;
 }
 
 export type Visibility = "private" | "channel";

@@ -29,7 +29,8 @@ export type ErrorCode =
   | "STORE_TOO_LARGE"
   | "STORE_REJECTED"
   | "STORE_BAD_DATA"
-  | "CONFIG_INVALID";
+  | "CONFIG_INVALID"
+  | "ANALYSIS_BUSY";
 
 export class PlumblineError extends Error {
   readonly code: ErrorCode;

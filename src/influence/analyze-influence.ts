@@ -9,9 +9,21 @@
 import type { CountMatrix } from "../domain/counts.js";
 import { type Background, buildAttentionPrior, pointRowsFromPrior } from "./attention-prior.js";
 import type { AttentionRows } from "./attention-rows.js";
-import { drawPlan, drawShares, posteriorMethod } from "./posterior-draws.js";
+import {
+  type DrawPlan,
+  type DrawRange,
+  drawPlan,
+  drawShares,
+  posteriorMethod,
+} from "./posterior-draws.js";
 import { secondEigenvalue } from "./second-eigenvalue.js";
 import { stationaryVector } from "./stationary-vector.js";
+
+/**
+ * Computes draws [0, samples) of `plan` elsewhere (worker threads), with the same result as
+ * `drawShares(plan, 0, samples)`; null when it cannot, and the draws are made here.
+ */
+export type DrawRangeRunner = (plan: DrawPlan, samples: number) => DrawRange | null;
 
 export interface InfluenceOptions {
   /** "auto" (prior strength learnt per row) or a fixed strength α ≥ 0. */
@@ -21,6 +33,10 @@ export interface InfluenceOptions {
   readonly seed: number;
   /** Applied to every attention row set before solving (e.g. the what-if cap). */
   readonly transform?: (rows: AttentionRows) => AttentionRows;
+  /** Where the draws run when there is no transform (issue 12); default here. */
+  readonly drawRanges?: DrawRangeRunner;
+  /** Called with the number of draws done, about 50 times per analysis. */
+  readonly onDraw?: (done: number) => void;
   /** Member → group whose attention profile is the member's prior (default: one group). */
   readonly groupOf?: Int32Array;
 }
@@ -49,6 +65,28 @@ export function effectiveVoicesOf(shares: ArrayLike<number>): number {
   return sum > 0 ? 1 / sum : 0;
 }
 
+/** Draws [0, samples) in this thread; in about 50 ranges when progress is asked for. */
+function drawHere(
+  plan: DrawPlan,
+  samples: number,
+  transform: InfluenceOptions["transform"],
+  onDraw: InfluenceOptions["onDraw"],
+): DrawRange {
+  if (onDraw === undefined) return drawShares(plan, 0, samples, transform);
+  const n = plan.n;
+  const shares = new Float64Array(samples * n);
+  const effectiveVoices = new Float64Array(samples);
+  const step = Math.max(1, Math.ceil(samples / 50));
+  for (let from = 0; from < samples; from += step) {
+    const to = Math.min(samples, from + step);
+    const range = drawShares(plan, from, to, transform); // ranges concatenate to [0, samples)
+    shares.set(range.shares, from * n);
+    effectiveVoices.set(range.effectiveVoices, from);
+    onDraw(to);
+  }
+  return { shares, effectiveVoices };
+}
+
 export function analyzeInfluence(counts: CountMatrix, options: InfluenceOptions): InfluenceResult {
   const prior = buildAttentionPrior(counts, options.background, options.groupOf);
   const rows0 = pointRowsFromPrior(counts, prior);
@@ -59,7 +97,9 @@ export function analyzeInfluence(counts: CountMatrix, options: InfluenceOptions)
     seed: options.seed,
     start: point,
   });
-  const range = drawShares(plan, 0, options.samples, options.transform);
+  const range =
+    (options.transform === undefined ? options.drawRanges?.(plan, options.samples) : null) ??
+    drawHere(plan, options.samples, options.transform, options.onDraw);
   const n = prior.n;
   const draws: Float64Array[] = [];
   for (let k = 0; k < options.samples; k++) draws.push(range.shares.subarray(k * n, (k + 1) * n));

@@ -1,9 +1,13 @@
+import { createRequire } from "node:module";
 import { describe, expect, it } from "vitest";
 import { rowEntry } from "../../src/influence/attention-rows.js";
 import {
   createGammaSampler,
+  gammaConstants,
+  LINEAR_MIN_SHAPE,
   sampleGamma,
   sampleLogGamma,
+  sampleNormal,
 } from "../../src/influence/gamma-sampler.js";
 import { drawAttentionMatrix } from "../../src/influence/posterior-draws.js";
 import { createSeededRng } from "../../src/ports/rng.js";
@@ -71,13 +75,16 @@ describe("gamma sampler (Marsaglia & Tsang 2000)", () => {
     });
   }
 
-  for (const shape of [0.3, 2.5]) {
-    it(`the sampler that keeps spare normals also passes KS against jstat's Gamma(${shape})`, () => {
-      // Same reference and critical value as above; this is the path the posterior draws use.
+  for (const shape of [0.07, 0.3, 0.9, 2.5, 40]) {
+    it(`the precomputed-constant path (linear space) passes KS against jstat's Gamma(${shape})`, () => {
+      // Same reference and critical value as above; this is the path the posterior draws use,
+      // with one constant set reused for every variate as in the K draws.
+      expect(shape).toBeGreaterThanOrEqual(LINEAR_MIN_SHAPE);
       const gamma = loadJStatGamma();
       const sampler = createGammaSampler(createSeededRng(Math.round(shape * 100) + 9));
+      const constants = gammaConstants([1, shape]);
       const count = 20_000;
-      const xs = Array.from({ length: count }, () => Math.exp(sampler.logGamma(shape))).sort(
+      const xs = Array.from({ length: count }, () => sampler.gammaAt(constants, 1)).sort(
         (a, b) => a - b,
       );
       let d = 0;
@@ -89,10 +96,50 @@ describe("gamma sampler (Marsaglia & Tsang 2000)", () => {
     });
   }
 
+  for (const shape of [1e-4, 0.02]) {
+    it(`the precomputed-constant log path keeps log Gamma(${shape}) at mean ψ(a), variance ψ'(a)`, () => {
+      // Johnson, Kotz & Balakrishnan 1994, ch. 17 (cumulants of log G), as above.
+      const sampler = createGammaSampler(createSeededRng(77));
+      const constants = gammaConstants([shape]);
+      const xs = new Float64Array(N);
+      for (let k = 0; k < N; k++) xs[k] = sampler.logGammaAt(constants, 0);
+      const { mean, variance } = meanVariance(xs);
+      const trigamma = polygamma(1, shape);
+      expect(Math.abs(mean - digamma(shape))).toBeLessThan(5 * Math.sqrt(trigamma / N));
+      const seVariance = Math.sqrt((polygamma(3, shape) + 2 * trigamma ** 2) / N);
+      expect(Math.abs(variance - trigamma)).toBeLessThan(5 * seVariance);
+    });
+  }
+
   it("rejects a non-positive shape", () => {
     const rng = createSeededRng(1);
     expect(() => sampleLogGamma(0, rng)).toThrow(RangeError);
     expect(() => sampleLogGamma(Number.NaN, rng)).toThrow(RangeError);
+  });
+});
+
+describe("ziggurat normal (Marsaglia & Tsang 2000, JSS 5(8))", () => {
+  it("passes KS against jstat's standard normal CDF, in the body and both tails", () => {
+    // Reference: jstat 1.9 normal.cdf; KS critical value 1.95/√n at α = 0.001 (Massey 1951, from
+    // memory). 200,000 variates reach the base strip's tail (|x| > 3.44, p ≈ 5.8e-4) about 115
+    // times: its count is checked against the binomial expectation too.
+    const jstat = createRequire(import.meta.url)("jstat") as {
+      normal: { cdf(x: number, mean: number, sd: number): number };
+    };
+    const rng = createSeededRng(2000);
+    const xs = Array.from({ length: N }, () => sampleNormal(rng)).sort((a, b) => a - b);
+    let d = 0;
+    xs.forEach((x, k) => {
+      const f = jstat.normal.cdf(x, 0, 1);
+      d = Math.max(d, Math.abs(f - k / N), Math.abs((k + 1) / N - f));
+    });
+    expect(d).toBeLessThan(1.95 / Math.sqrt(N));
+    const tailP = 2 * jstat.normal.cdf(-3.442619855899, 0, 1);
+    const tail = xs.filter((x) => Math.abs(x) > 3.442619855899).length;
+    expect(Math.abs(tail - N * tailP)).toBeLessThan(5 * Math.sqrt(N * tailP));
+    const { mean, variance } = meanVariance(Float64Array.from(xs));
+    expect(Math.abs(mean)).toBeLessThan(5 / Math.sqrt(N));
+    expect(Math.abs(variance - 1)).toBeLessThan(5 * Math.sqrt(2 / N));
   });
 });
 

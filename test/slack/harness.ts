@@ -15,6 +15,7 @@ import { createRouteServer, listen } from "../../adapters/route-server.js";
 import { slackSignature } from "../../adapters/slack/request-guard.js";
 import { createSlackAdapter } from "../../adapters/slack/slack-adapter.js";
 import type { ConsentLevel } from "../../src/domain/events.js";
+import type { AnalysisRunner } from "../../src/ports/analysis-runner.js";
 import { ManualClock } from "../../src/ports/clock.js";
 import { MemoryLogger } from "../../src/ports/logger.js";
 import type { Store } from "../../src/ports/store.js";
@@ -54,7 +55,7 @@ export interface Harness {
 
 /** Starts the adapter behind a loopback server; `auth.test` is answered by nock. */
 export async function startHarness(
-  options: { renderChart?: ChartRenderer } = {},
+  options: { renderChart?: ChartRenderer; analysis?: AnalysisRunner } = {},
 ): Promise<Harness> {
   nock.disableNetConnect();
   nock.enableNetConnect("127.0.0.1");
@@ -90,9 +91,10 @@ export async function startHarness(
     logger,
     facilitators: [],
     replicaId: "test",
+    ...(options.analysis ? { analysis: options.analysis } : {}),
   });
   await adapter.start(bot);
-  const server = createRouteServer({ routes: adapter.routes });
+  const server = createRouteServer({ routes: adapter.routes, health: () => ({ ok: true }) });
   const port = await listen(server, 0, "127.0.0.1");
   return {
     server,
