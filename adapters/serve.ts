@@ -144,7 +144,7 @@ export async function serve(options: ServeOptions): Promise<RunningServer> {
       store,
       watched,
       clock,
-      ...(options.readinessProbes ? { probes: options.readinessProbes } : {}),
+      probes: { workers: () => pool.assertUp(), ...(options.readinessProbes ?? {}) },
     }),
     logger,
     ...(options.serverLimits ? { limits: options.serverLimits } : {}),

@@ -162,6 +162,12 @@ export class WorkerPool implements AnalysisRunner {
     return { shares, effectiveVoices: voices };
   }
 
+  /** For readiness (`/readyz`): throws when the pool is closed or, off-thread, has no worker. */
+  assertUp(): void {
+    if (this.closed) throw new Error("the analysis pool is closed");
+    if (!this.inThread && this.slots.length === 0) throw new Error("no analysis worker is running");
+  }
+
   /** Stops the workers; jobs not finished are rejected. */
   async close(): Promise<void> {
     this.closed = true;

@@ -105,7 +105,8 @@ describe("analysis queue", () => {
     };
     const plain = { kind: "analyze" as const, settings };
     const asks = [1, 2, 3].map(() => queue.runShared(plain, "a", load));
-    while (held.started() === 0) await Promise.resolve(); // the load settles, the run starts
+    // The load is deferred one event-loop turn (serve acknowledges first): yield macrotasks.
+    while (held.started() === 0) await new Promise((resolve) => setImmediate(resolve));
     held.releaseAll();
     const results = await Promise.all(asks);
     expect(loads).toBe(1);

@@ -69,6 +69,15 @@ describe("worker pool", () => {
     });
   }
 
+  it("tells /readyz whether it can run analyses: up once warm, down once closed", async () => {
+    pool = new WorkerPool({ size: 1, threads: "always" });
+    expect(() => pool?.assertUp()).toThrow(/no analysis worker/);
+    pool.warm();
+    expect(() => pool?.assertUp()).not.toThrow();
+    await pool.close();
+    expect(() => pool?.assertUp()).toThrow(/closed/);
+  });
+
   it("runs in the calling thread at size 1 and reports draws done of K", async () => {
     pool = new WorkerPool({ size: 1 });
     expect(pool.inThread).toBe(true);
