@@ -73,7 +73,7 @@ describe("/readyz and /healthz", () => {
     expect(ready.status).toBe(200);
     expect(await ready.json()).toEqual({
       ready: true,
-      checks: { store: { ok: true }, migrations: { ok: true } },
+      checks: { store: { ok: true }, migrations: { ok: true }, workers: { ok: true } },
     });
     // The probe's delivery key was rolled back: a later insert of the same key is new.
     const key = await running?.store.transaction((tx) => tx.addDelivery("readyz:probe", 0));
