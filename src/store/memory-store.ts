@@ -122,7 +122,7 @@ class MemoryStore implements Store {
   async claimPost(request: ClaimRequest): Promise<boolean> {
     const id = claimId(request);
     const held = this.claims.get(id);
-    if (held !== undefined && !(held.status === "claimed" && held.leaseUntil < request.now)) {
+    if (!takeable(held, request.now)) {
       return false;
     }
     this.claims.set(id, {
@@ -166,7 +166,7 @@ class MemoryStore implements Store {
   async recordMiss(request: ClaimRequest & { reason: MissReason }): Promise<boolean> {
     const id = claimId(request);
     const held = this.claims.get(id);
-    if (held !== undefined && !(held.status === "claimed" && held.leaseUntil < request.now)) {
+    if (!takeable(held, request.now)) {
       return false;
     }
     this.claims.set(id, {
@@ -358,4 +358,9 @@ class MemoryStore implements Store {
 
 function claimId(key: ClaimKey): string {
   return `${key.channel}\u0000${key.kind}\u0000${key.period}`;
+}
+
+/** A claim slot is free, or holds an unposted claim whose lease has ended (it may be taken over). */
+function takeable(held: PostClaim | undefined, now: number): boolean {
+  return held === undefined || (held.status === "claimed" && held.leaseUntil < now);
 }

@@ -5,30 +5,16 @@
 import { spawnSync } from "node:child_process";
 import { writeFileSync } from "node:fs";
 import { describe, expect, it } from "vitest";
-import { main } from "../../adapters/local/cli.js";
-import type { CliIo } from "../../adapters/local/cli-io.js";
 import { DEMO_CHANNEL, demoEvents } from "../../adapters/local/demo-scenario.js";
 import { comparePeriods } from "../../src/analysis/compare-periods.js";
 import { buildLedgers } from "../../src/attention/channel-ledger.js";
 import { parseDateRange } from "../../src/domain/date-range.js";
 import { DEFAULT_SETTINGS } from "../../src/domain/settings.js";
 import { writeLog } from "../report/log-builders.js";
+import { runCli } from "./run-cli.js";
 
-async function run(argv: string[]): Promise<{ code: number; out: string; err: string }> {
-  let out = "";
-  let err = "";
-  const io: CliIo = {
-    stdout: (t) => {
-      out += t;
-    },
-    stderr: (t) => {
-      err += t;
-    },
-    env: {},
-    cwd: process.cwd(),
-  };
-  const code = await main(argv, io);
-  return { code, out, err };
+function run(argv: string[]): Promise<{ code: number; out: string; err: string }> {
+  return runCli(argv);
 }
 
 const demoLogPath = writeLog(demoEvents(), "demo.jsonl");

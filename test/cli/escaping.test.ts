@@ -4,29 +4,16 @@
  * ECMA-48's "erase in page" (CSI Ps J with Ps = 2, ECMA-48 5th edition 1991, §8.3.39); OSC
  * (ESC ]) sets a terminal's title in common practice (xterm's control sequences).
  */
+
 import { describe, expect, it } from "vitest";
-import { main } from "../../adapters/local/cli.js";
-import type { CliIo } from "../../adapters/local/cli-io.js";
 import { mentionEvents, mutualPairs, writeLog } from "../report/log-builders.js";
+import { runCli } from "./run-cli.js";
 
 const CLEAR = "\u001b[2J";
 const NASTY = [`ana${CLEAR}`, "bo\u0000x", "cy\u001b]0;owned\u0007", "dee\u009b2J", "eve\u202e"];
 
-async function run(argv: string[]): Promise<{ code: number; out: string; err: string }> {
-  let out = "";
-  let err = "";
-  const io: CliIo = {
-    stdout: (t) => {
-      out += t;
-    },
-    stderr: (t) => {
-      err += t;
-    },
-    env: {},
-    cwd: process.cwd(),
-  };
-  const code = await main(argv, io);
-  return { code, out, err };
+function run(argv: string[]): Promise<{ code: number; out: string; err: string }> {
+  return runCli(argv);
 }
 
 /** Any C0/C1 control but line feed, or the bidi override used above, left raw. */

@@ -7,28 +7,15 @@ import { mkdtempSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { describe, expect, it } from "vitest";
-import { main } from "../../adapters/local/cli.js";
-import type { CliIo } from "../../adapters/local/cli-io.js";
 import { DEMO_CHANNEL, demoEvents } from "../../adapters/local/demo-scenario.js";
 import { analyzeSnapshot } from "../../src/analysis/analyze-snapshot.js";
 import { buildLedgers } from "../../src/attention/channel-ledger.js";
 import { DAY_MS, DEFAULT_SETTINGS } from "../../src/domain/settings.js";
 import { writeLog } from "../report/log-builders.js";
+import { runCli } from "./run-cli.js";
 
-async function run(argv: string[]): Promise<{ code: number; out: string; err: string }> {
-  let out = "";
-  let err = "";
-  const io: CliIo = {
-    stdout: (t) => {
-      out += t;
-    },
-    stderr: (t) => {
-      err += t;
-    },
-    env: { PLUMBLINE_ID_KEY: "a".repeat(64) },
-    cwd: process.cwd(),
-  };
-  return { code: await main(argv, io), out, err };
+function run(argv: string[]): Promise<{ code: number; out: string; err: string }> {
+  return runCli(argv, { PLUMBLINE_ID_KEY: "a".repeat(64) });
 }
 
 const events = demoEvents();
