@@ -329,5 +329,10 @@ export function hiddenGroupRows(
   }
   const n = disclosed.hiddenGroups.length;
   const reasons = [...new Set(disclosed.hiddenGroups.map((h) => h.reason))];
-  return [{ label: `  ${n} group${n === 1 ? "" : "s"}`, value: reasons.join("; ") }];
+  // One "hidden:" for the row, then each distinct reason ("hidden: fewer than 5 members, or …").
+  const value =
+    reasons.length === 1
+      ? reasons[0]
+      : `hidden: ${reasons.map((r) => r.replace(/^hidden: /, "")).join(", or ")}`;
+  return [{ label: `  ${n} group${n === 1 ? "" : "s"}`, value }];
 }

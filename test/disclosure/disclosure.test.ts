@@ -265,3 +265,26 @@ describe("groups that changed within the window", () => {
     expect(unsettledGroups(snapshot, { from, until }, 3)).toEqual([]);
   });
 });
+
+describe("hidden groups counted for a member", () => {
+  it("says 'hidden' once and lists each distinct reason", async () => {
+    const { hiddenGroupRows, hiddenText, singleOutText } = await import(
+      "../../src/report/disclosure.js"
+    );
+    const base = { groups: [], clusters: null, listHiddenLabels: false } as const;
+    const rows = hiddenGroupRows({
+      ...base,
+      hiddenGroups: [
+        { group: "a", reason: hiddenText(5) },
+        { group: "b", reason: hiddenText(5) },
+        { group: "c", reason: singleOutText(5) },
+      ],
+    } as unknown as Parameters<typeof hiddenGroupRows>[0]);
+    expect(rows).toHaveLength(1);
+    expect(rows[0].label.trim()).toBe("3 groups");
+    expect(rows[0].value).toBe(
+      "hidden: fewer than 5 members, or beside the other figures it would single out fewer than 5 members",
+    );
+    expect(rows[0].value.match(/hidden/g)).toHaveLength(1);
+  });
+});
