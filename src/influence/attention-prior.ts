@@ -5,12 +5,14 @@
  * renormalised, and α_i is the prior strength in signals.
  *
  * - Effective counts (§4.3): Ĉ_ij = k_i·C_ij with k_i = Σw/Σw² (Kish 1965, "Survey Sampling").
- * - The profile m has the posterior Dirichlet(a₀/n + Σ_i d_i·Ĉ_i·): a row's ĉ_i signals are worth
- *   d_i = min(1, (1+α_i)/(ĉ_i+α_i)) independent draws of the profile — the variance inflation of a
- *   Dirichlet–multinomial count (Mosimann 1962, "On the compound multinomial distribution…",
- *   Biometrika 49:65–82) — and a₀ = 0.3 per member smooths members nobody attended to yet. The
- *   draws take a fresh m from this posterior each time, so the profile's own uncertainty is in the
- *   intervals.
+ * - The profile m: member j receives x_j = Σ_i d_i·Ĉ_ij signals, where a row's ĉ_i signals are
+ *   worth d_i = min(1, (1+α_i)/(ĉ_i+α_i)) independent draws of the profile — the variance
+ *   inflation of a Dirichlet–multinomial count (Mosimann 1962, "On the compound multinomial
+ *   distribution…", Biometrika 49:65–82). How popular a typical member is, is learnt from the x
+ *   (`fitPopularity`: a Gamma–Poisson hierarchy with a hub component), so a member nobody has
+ *   answered yet is assumed as popular as the channel's typical member is, no more and no less, and
+ *   a member everyone attends to keeps the attention the data give them. The draws take a fresh m
+ *   from its posterior each time, so the profile's own uncertainty is in the intervals.
  * - Prior strength `auto` (the default, chosen by the calibration search in
  *   bench/calibrate/prototype/): α_i is learnt per row. Its posterior on a log-spaced grid of
  *   GRID_POINTS values in [0.1, 10·(n−1)] is the Dirichlet–multinomial likelihood of the row's
@@ -31,8 +33,14 @@ import { logGamma } from "./log-gamma.js";
 export type Background = number | "auto";
 
 export const PRIOR_DEFAULTS = {
-  /** Hyperprior a₀ per member on the profile m. */
-  profileSmoothingPerMember: 1,
+  /** Grid of the popularity shape β (log-spaced). */
+  popularityGridPoints: 61,
+  popularityGridLow: 0.01,
+  popularityGridHigh: 1000,
+  /** Prior share w of hubs, members attended to beyond the typical spread. */
+  hubShare: 0.05,
+  /** A hub's rate is log-uniform on [μ, hubRange·μ]. */
+  hubRange: 1000,
   gridPoints: 25,
   gridLow: 0.1,
   /** Grid top = gridHighPerMember·(n − 1): no row is assumed more even than Dirichlet(1). */
@@ -51,6 +59,10 @@ export interface AttentionPrior {
   readonly concentration: Float64Array;
   /** Posterior means of the profiles (groups × n, each block sums to 1). */
   readonly profile: Float64Array;
+  /** Hub columns of the one-group profile (absent with several groups). */
+  readonly hubs?: ProfileHubs;
+  /** The fitted popularity hyperprior (channel-wide). */
+  readonly popularity: Popularity;
   /** Each row's group (its profile's index). */
   readonly profileOf: Int32Array;
   /** Strength grid (one value when fixed). */
@@ -98,23 +110,18 @@ function strengthGrid(n: number, background: Background): Float64Array {
   return grid;
 }
 
-/**
- * Dirichlet parameters of each group's profile (groups × n): the group's rows' counts weighted by
- * the design effect d_i, plus a₀ = `profileSmoothingPerMember`·n pseudo-signals spread like the
- * channel-wide profile (itself smoothed by a₀ per member).
- */
-function profileConcentrations(
+/** Received signals x_j = Σ_i d_i·Ĉ_ij per group (groups × n) and channel-wide (n). */
+function receivedCounts(
   counts: CountMatrix,
   effective: Float64Array,
   rowTotals: Float64Array,
   strength: Float64Array,
   groupOf: Int32Array,
   groups: number,
-): Float64Array {
+): { readonly own: Float64Array; readonly channel: Float64Array } {
   const n = counts.members.length;
-  const a0 = PRIOR_DEFAULTS.profileSmoothingPerMember;
   const own = new Float64Array(groups * n);
-  const channel = new Float64Array(n).fill(a0);
+  const channel = new Float64Array(n);
   for (let i = 0; i < n; i++) {
     const c = rowTotals[i];
     if (!(c > 0)) continue;
@@ -127,13 +134,200 @@ function profileConcentrations(
       channel[counts.colIdx[k]] += w;
     }
   }
-  let total = 0;
-  for (let j = 0; j < n; j++) total += channel[j];
-  const spread = (a0 * n) / total;
-  for (let g = 0; g < groups; g++) {
-    for (let j = 0; j < n; j++) own[g * n + j] += spread * channel[j];
+  return { own, channel };
+}
+
+/** How popular a typical member is (DESIGN.md §4.4 v2): the fitted hyperprior of the profile. */
+export interface Popularity {
+  /** Gamma shape β of a typical member's attention rate (small = uneven channel). */
+  readonly shape: number;
+  /** Mean μ of a typical member's rate, in received signals. */
+  readonly mean: number;
+  /** Posterior probability that member j is a hub (outside the typical spread). */
+  readonly hubProbability: Float64Array;
+}
+
+/**
+ * log P(x) of the negative binomial with shape r and mean μ (the Gamma–Poisson marginal, r and x
+ * real ≥ 0): lnΓ(x+r) − lnΓ(r) − lnΓ(x+1) + r·ln(r/(r+μ)) + x·ln(μ/(r+μ)).
+ */
+export function logNegativeBinomial(x: number, r: number, mean: number): number {
+  const logTotal = Math.log(r + mean);
+  return (
+    logGamma(x + r) -
+    logGamma(r) -
+    logGamma(x + 1) +
+    r * (Math.log(r) - logTotal) +
+    (x > 0 ? x * (Math.log(mean) - logTotal) : 0)
+  );
+}
+
+const HUB_NODES = 48;
+
+/**
+ * log P(x) when the rate λ is log-uniform on [μ, R·μ] (the hub component): the Poisson probability
+ * averaged over ln λ, by the trapezoid rule on HUB_NODES nodes (log-sum-exp).
+ */
+function logHubMarginal(x: number, mean: number, range: number): number {
+  const a = Math.log(mean);
+  const h = Math.log(range) / (HUB_NODES - 1);
+  const constant = logGamma(x + 1);
+  let max = Number.NEGATIVE_INFINITY;
+  const logs = new Float64Array(HUB_NODES);
+  for (let t = 0; t < HUB_NODES; t++) {
+    const logRate = a + t * h;
+    const w = t === 0 || t === HUB_NODES - 1 ? 0.5 : 1;
+    logs[t] = x * logRate - Math.exp(logRate) - constant + Math.log(w);
+    if (logs[t] > max) max = logs[t];
   }
-  return own;
+  let sum = 0;
+  for (let t = 0; t < HUB_NODES; t++) sum += Math.exp(logs[t] - max);
+  return max + Math.log(sum / (HUB_NODES - 1));
+}
+
+/**
+ * Fits how popular a typical member is from the received signals x (DESIGN.md §4.4 v2): each
+ * member's rate λ_j is, with probability 1 − w, Gamma(β) with mean μ (a typical member), else
+ * log-uniform on [μ, R·μ] (a hub), and x_j ~ Poisson(λ_j). β is the maximum of the expected
+ * complete-data likelihood on a log grid, μ the mean of the typical members' counts, alternated
+ * with the hub probabilities (EM; Dempster, Laird & Rubin 1977, JRSS B 39:1–38) until they settle.
+ * The hub component keeps a member everyone attends to from being shrunk toward the crowd; the
+ * learnt β decides how far the rest are.
+ */
+export function fitPopularity(x: ArrayLike<number>): Popularity {
+  const n = x.length;
+  const { popularityGridPoints: G, popularityGridLow, popularityGridHigh, hubShare, hubRange } =
+    PRIOR_DEFAULTS;
+  const hubProbability = new Float64Array(n);
+  let total = 0;
+  for (let j = 0; j < n; j++) total += x[j];
+  if (!(total > 0) || n === 0) return { shape: popularityGridHigh, mean: 1, hubProbability };
+  const grid = logGrid(popularityGridLow, popularityGridHigh, G);
+  let mean = total / n;
+  let shape = 1;
+  for (let pass = 0; pass < 20; pass++) {
+    for (let j = 0; j < n; j++) {
+      if (!(x[j] > 0)) {
+        hubProbability[j] = 0;
+        continue;
+      }
+      const hub = Math.log(hubShare) + logHubMarginal(x[j], mean, hubRange);
+      const typical = Math.log(1 - hubShare) + logNegativeBinomial(x[j], shape, mean);
+      hubProbability[j] = 1 / (1 + Math.exp(typical - hub));
+    }
+    let weight = 0;
+    let sum = 0;
+    for (let j = 0; j < n; j++) {
+      weight += 1 - hubProbability[j];
+      sum += (1 - hubProbability[j]) * x[j];
+    }
+    const nextMean = weight > 0 && sum > 0 ? sum / weight : mean;
+    let best = Number.NEGATIVE_INFINITY;
+    let nextShape = shape;
+    for (let g = 0; g < G; g++) {
+      let log = 0;
+      for (let j = 0; j < n; j++) {
+        log += (1 - hubProbability[j]) * logNegativeBinomial(x[j], grid[g], nextMean);
+      }
+      if (log > best) {
+        best = log;
+        nextShape = grid[g];
+      }
+    }
+    const settled = nextShape === shape && Math.abs(nextMean - mean) <= 1e-9 * mean;
+    shape = nextShape;
+    mean = nextMean;
+    if (settled) break;
+  }
+  return { shape, mean, hubProbability };
+}
+
+function logGrid(low: number, high: number, points: number): Float64Array {
+  const grid = new Float64Array(points);
+  const a = Math.log(low);
+  const b = Math.log(high);
+  for (let g = 0; g < points; g++) grid[g] = Math.exp(a + ((b - a) * g) / (points - 1));
+  return grid;
+}
+
+/** The profile's posterior (DESIGN.md §4.4 v2) for the current design effects. */
+interface ProfilePosterior {
+  /** Gamma shapes (groups × n) of the typical-member posterior; normalised they are Dirichlet. */
+  readonly concentration: Float64Array;
+  /** Posterior means of the profiles (groups × n, each block sums to 1). */
+  readonly profile: Float64Array;
+  /** Channel-wide hubs (one group only). */
+  readonly hubs?: ProfileHubs;
+  readonly popularity: Popularity;
+}
+
+/**
+ * Hub columns of the one-group profile: with probability p_j member j's rate is Gamma(x_j, 1)
+ * (the hub posterior, its bounds dropped), else Gamma(x_j + β)/rate with rate = 1 + β/μ.
+ */
+export interface ProfileHubs {
+  readonly probability: Float64Array;
+  readonly shape: Float64Array;
+  readonly rate: number;
+}
+
+/**
+ * One group: λ_j | x_j is Gamma(x_j + β, 1 + β/μ) for a typical member and ≈ Gamma(x_j, 1) for a
+ * hub, mixed by the hub probability; the profile is λ normalised. Several groups: group g's
+ * profile is Dirichlet(x_g + b_g·u), u the channel-wide profile mean and b_g the geometric
+ * posterior mean of its Dirichlet–multinomial likelihood on a log grid (log-uniform prior).
+ */
+function profilePosterior(
+  received: { readonly own: Float64Array; readonly channel: Float64Array },
+  n: number,
+  groups: number,
+): ProfilePosterior {
+  const { channel, own } = received;
+  const popularity = fitPopularity(channel);
+  const { shape, mean, hubProbability } = popularity;
+  const rate = 1 + shape / mean;
+  const concentration = new Float64Array(groups * n);
+  const u = new Float64Array(n);
+  let sum = 0;
+  for (let j = 0; j < n; j++) {
+    concentration[j] = channel[j] + shape;
+    const p = hubProbability[j];
+    u[j] = ((1 - p) * (channel[j] + shape)) / rate + p * channel[j];
+    sum += u[j];
+  }
+  for (let j = 0; j < n; j++) u[j] = sum > 0 ? u[j] / sum : 1 / n;
+  if (groups === 1) {
+    const hubShape = Float64Array.from(channel);
+    return {
+      concentration,
+      profile: u,
+      hubs: { probability: hubProbability, shape: hubShape, rate },
+      popularity,
+    };
+  }
+  const { popularityGridPoints: G, popularityGridLow, popularityGridHigh } = PRIOR_DEFAULTS;
+  const grid = logGrid(popularityGridLow * n, popularityGridHigh * n, G);
+  const logs = new Float64Array(G);
+  const a = new Float64Array(n);
+  for (let g = 0; g < groups; g++) {
+    const x = own.subarray(g * n, (g + 1) * n);
+    let max = Number.NEGATIVE_INFINITY;
+    for (let t = 0; t < G; t++) {
+      for (let j = 0; j < n; j++) a[j] = grid[t] * u[j];
+      logs[t] = logDirichletMultinomial(x, a);
+      if (logs[t] > max) max = logs[t];
+    }
+    let weight = 0;
+    let logMean = 0;
+    for (let t = 0; t < G; t++) {
+      const w = Math.exp(logs[t] - max);
+      weight += w;
+      logMean += w * Math.log(grid[t]);
+    }
+    const b = Math.exp(logMean / weight);
+    for (let j = 0; j < n; j++) concentration[g * n + j] = x[j] + b * u[j];
+  }
+  return { concentration, profile: normalisedBlocks(concentration, n), popularity };
 }
 
 /**
@@ -205,20 +399,16 @@ export function buildAttentionPrior(
   const cumulative = new Float64Array(n * G);
   const strength = new Float64Array(n);
   strength.fill(G === 1 ? grid[0] : Math.sqrt(grid[0] * grid[G - 1]));
-  let concentration: Float64Array = new Float64Array(0);
-  let profile: Float64Array = new Float64Array(0);
+  let posterior: ProfilePosterior | null = null;
   const passes = G === 1 ? 1 : PRIOR_DEFAULTS.passes;
   const logs = new Float64Array(G);
   for (let pass = 0; pass < passes; pass++) {
-    concentration = profileConcentrations(
-      counts,
-      effective,
-      rowTotals,
-      strength,
-      groupIndex,
+    posterior = profilePosterior(
+      receivedCounts(counts, effective, rowTotals, strength, groupIndex, groups),
+      n,
       groups,
     );
-    profile = normalisedBlocks(concentration, n);
+    const profile = posterior.profile;
     for (let i = 0; i < n; i++) {
       if (G === 1) {
         cumulative[i] = 1;
@@ -252,12 +442,15 @@ export function buildAttentionPrior(
       strength[i] = Math.exp(logMean / total);
     }
   }
+  if (posterior === null) throw new Error("unreachable: no prior pass ran");
   return {
     n,
     effective,
     rowTotals,
-    concentration,
-    profile,
+    concentration: posterior.concentration,
+    profile: posterior.profile,
+    ...(posterior.hubs ? { hubs: posterior.hubs } : {}),
+    popularity: posterior.popularity,
     profileOf: groupIndex,
     grid,
     cumulative,

@@ -3,8 +3,8 @@
  * Posterior draws of the influence shares (DESIGN.md §4.6, version 2). Each draw k, on its own
  * random stream `createDrawRng(seed, k)`:
  *
- * 1. takes each group's profile m from its Dirichlet posterior (attention-prior), as normalised
- *    Gamma variates;
+ * 1. takes each group's profile m from its posterior (attention-prior), as normalised Gamma
+ *    variates (a hub column from its hub posterior with its hub probability);
  * 2. takes each row's prior strength α_i from its grid posterior (one uniform per row);
  * 3. draws every cell of every row from Dirichlet(Ĉ_i + α_i·m^(i)) (Noé 2008, "Probability
  *    distributions of molecular observables computed from Markov models", J. Chem. Phys.
@@ -25,7 +25,12 @@
 
 import type { CountMatrix } from "../domain/counts.js";
 import { createDrawRng } from "../ports/rng.js";
-import { type AttentionPrior, type Background, buildAttentionPrior } from "./attention-prior.js";
+import {
+  type AttentionPrior,
+  type Background,
+  buildAttentionPrior,
+  type ProfileHubs,
+} from "./attention-prior.js";
 import type { AttentionRows } from "./attention-rows.js";
 import { createGammaSampler, type GammaSampler } from "./gamma-sampler.js";
 import { checkSelfWeight, stationaryVector } from "./stationary-vector.js";
@@ -49,6 +54,8 @@ export interface DrawPlan {
   readonly effective: Float64Array;
   /** Dirichlet posterior parameters of each group's profile (groups × n). */
   readonly concentration: Float64Array;
+  /** Hub columns of a one-group profile (attention-prior's `ProfileHubs`). */
+  readonly hubs?: ProfileHubs;
   /** Each row's group: the profile its prior follows. */
   readonly profileOf: Int32Array;
   readonly grid: Float64Array;
@@ -83,6 +90,7 @@ export function drawPlan(
     colIdx: counts.colIdx,
     effective: prior.effective,
     concentration: prior.concentration,
+    ...(prior.hubs ? { hubs: prior.hubs } : {}),
     profileOf: prior.profileOf,
     grid: prior.grid,
     cumulative: prior.cumulative,
@@ -134,19 +142,28 @@ function searchCumulative(cumulative: Float64Array, lo: number, hi: number, u: n
 
 /**
  * Fills each n-block of `out` with a profile drawn from Dirichlet(that block of `concentration`)
- * and `cumulative` with its running sums.
+ * and `cumulative` with its running sums. With `hubs` (one group), column j is a hub with
+ * probability p_j (one uniform per column with p_j > 0): its rate is Gamma(x_j, 1), else
+ * Gamma(concentration_j)/rate; the profile is the rates normalised.
  */
 function drawProfiles(
   concentration: Float64Array,
   n: number,
+  hubs: ProfileHubs | undefined,
   gamma: GammaSampler,
+  next: () => number,
   out: Float64Array,
   cumulative: Float64Array,
 ): void {
+  const logRate = hubs ? Math.log(hubs.rate) : 0;
   for (let base = 0; base < concentration.length; base += n) {
     let max = Number.NEGATIVE_INFINITY;
     for (let j = base; j < base + n; j++) {
-      const log = gamma.logGamma(concentration[j]);
+      const p = hubs ? hubs.probability[j - base] : 0;
+      const log =
+        p > 0 && next() < p
+          ? gamma.logGamma(hubs?.shape[j - base] ?? 1)
+          : gamma.logGamma(concentration[j]) - logRate;
       out[j] = log;
       if (log > max) max = log;
     }
@@ -299,7 +316,7 @@ function drawMatrixInto(plan: DrawPlan, k: number, scratch: RangeScratch): Atten
   const rng = createDrawRng(plan.seed, k);
   const gamma = createGammaSampler(rng);
   const next = () => rng.next();
-  drawProfiles(concentration, n, gamma, m, mCumulative);
+  drawProfiles(concentration, n, plan.hubs, gamma, next, m, mCumulative);
   const rows = new RowBuilder(n, plan.effective.length + 8 * n);
   const exact = posteriorMethod(n) === "exact";
   const stickCost = Math.log(1 / STICK_REMAINDER);
