@@ -60,8 +60,8 @@ export interface AnalysisReport {
     readonly background: number | "auto";
     /** Prior strength used, in signals: the median over rows (null when no figures). */
     readonly priorStrength: number | null;
-    /** How every cell's posterior is drawn: "exact" (per cell) or "stick-breaking" (large n). */
-    readonly posterior: "exact" | "stick-breaking";
+    /** How the posterior is drawn: "exact" (every cell, n ≤ 64) or "pooled" (large n: sticks, and one pooled prior direction per group for rows with a strong prior). */
+    readonly posterior: "exact" | "pooled";
     readonly selfWeight: number;
     readonly samples: number;
     readonly interval: number;

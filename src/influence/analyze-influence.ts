@@ -55,7 +55,7 @@ export interface InfluenceResult {
   /** Median prior strength α over rows (`settings.priorStrength`). */
   readonly priorStrength: number;
   /** How the prior part of each row is drawn (`settings.posterior`). */
-  readonly posterior: "exact" | "stick-breaking";
+  readonly posterior: "exact" | "pooled";
 }
 
 /** 1 / Σ s_i²: Kish's effective sample size of the consensus (DESIGN.md §1, effective voices). */

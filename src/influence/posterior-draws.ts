@@ -11,12 +11,16 @@
  *    128:244103, for the row-wise Dirichlet posterior of a transition matrix). By the additivity of
  *    Gamma variates, Gamma(Ĉ_ij + α m_j) = Gamma(Ĉ_ij) + Gamma(α m_j), so a row is its observed
  *    cells' Gamma(Ĉ_ij) plus a prior part Gamma(α)·W with W ~ Dirichlet(α·m^(i)) over all the
- *    others. W is drawn per cell (normalised Gamma variates: the exact reference) when n ≤
- *    EXACT_MEMBERS or when per-cell is cheaper, and otherwise by Sethuraman's stick-breaking
- *    (Sethuraman 1994, "A constructive definition of Dirichlet priors", Statistica Sinica
- *    4:639–650): weights V_t·Π_{u<t}(1−V_u), V ~ Beta(1, α), atoms from m^(i) — the masses the
- *    construction puts on the n−1 points are exactly Dirichlet(α·m^(i)). Sticks stop when less than
- *    STICK_REMAINDER of the prior part is left; that remainder follows m^(i) as its mean;
+ *    others. Up to EXACT_MEMBERS members (`settings.posterior` "exact") W is drawn per cell
+ *    (normalised Gamma variates: the reference). Above ("pooled"), a row whose α is small draws W
+ *    by Sethuraman's stick-breaking (Sethuraman 1994, "A constructive definition of Dirichlet
+ *    priors", Statistica Sinica 4:639–650): weights V_t·Π_{u<t}(1−V_u), V ~ Beta(1, α), atoms
+ *    from m^(i) — exact in law; sticks stop when less than STICK_REMAINDER of the prior part is
+ *    left, and that remainder follows the rest profile. A row whose α·ln(1/STICK_REMAINDER) ≥ n−1
+ *    (sticks would cost more than n cells) takes its group's pooled direction W_g instead
+ *    (`drawPooled`), an approximation that keeps the covariance the shares feel to first order and
+ *    costs O(n) per group per draw instead of O(n) per row; test/influence/pooled-draws.test.ts
+ *    compares it with the exact draws and the calibration suite checks it at n = 200 and 1,000;
  * 4. solves sT = s, warm-started from the point estimate, to DRAW_TOLERANCE.
  *
  * `drawShares` computes draws [from, to) from plain typed arrays and options only, so any range
@@ -65,6 +69,8 @@ export interface DrawPlan {
   readonly seed: number;
   /** Warm start of every solve (the point estimate's shares). */
   readonly start: Float64Array;
+  /** Draw every cell whatever n (the reference the pooled draws are checked against). */
+  readonly forceExact?: boolean;
 }
 
 export interface DrawRange {
@@ -75,8 +81,8 @@ export interface DrawRange {
 }
 
 /** `settings.posterior`: how each row's prior part is drawn. */
-export function posteriorMethod(n: number): "exact" | "stick-breaking" {
-  return n <= EXACT_MEMBERS ? "exact" : "stick-breaking";
+export function posteriorMethod(n: number): "exact" | "pooled" {
+  return n <= EXACT_MEMBERS ? "exact" : "pooled";
 }
 
 export function drawPlan(
@@ -198,7 +204,8 @@ function drawRow(
   alpha: number,
   m: Float64Array,
   mCumulative: Float64Array,
-  perCell: boolean,
+  restProfile: Float64Array,
+  mode: RowMode,
   gamma: GammaSampler,
   next: () => number,
   rows: RowBuilder,
@@ -209,10 +216,11 @@ function drawRow(
   const hi = rowPtr[i + 1];
   const base = plan.profileOf[i] * n;
   const off = 1 - m[base + i];
+  const restOff = 1 - restProfile[base + i];
   const start = rows.size;
   if (alpha <= 0) {
     if (hi === lo) {
-      rows.rest[i] = 1 / off; // no prior and no signals: the row follows the drawn profile
+      rows.rest[i] = 1 / restOff; // no prior and no signals: the row follows the drawn profile
       return;
     }
     let max = Number.NEGATIVE_INFINITY;
@@ -237,7 +245,7 @@ function drawRow(
     logs[k - lo] = log;
     if (log > max) max = log;
   }
-  if (perCell) {
+  if (mode === ROW_CELLS) {
     // W per cell: Gamma(α m^(i)_j) for every j ≠ i (their sum is the prior part Gamma(α)).
     const scale = alpha / off;
     let atomCount = 0;
@@ -265,7 +273,7 @@ function drawRow(
     for (let p = start; p < rows.size; p++) rows.vals[p] /= total;
     return;
   }
-  // Stick-breaking for W; the prior part's total is one Gamma(α) variate.
+  // The prior part's total is one Gamma(α) variate.
   const logPrior = gamma.logGamma(alpha);
   if (logPrior > max) max = logPrior;
   let total = 0;
@@ -276,6 +284,13 @@ function drawRow(
   }
   const prior = Math.exp(logPrior - max);
   total += prior;
+  if (mode === ROW_POOLED) {
+    // Along the group's pooled direction W_g (drawPooled), as a rest.
+    for (let p = start; p < rows.size; p++) rows.vals[p] /= total;
+    rows.rest[i] = prior / total / restOff;
+    return;
+  }
+  // Stick-breaking for W.
   let remaining = 1;
   const inverseAlpha = 1 / alpha;
   while (remaining > STICK_REMAINDER) {
@@ -287,13 +302,19 @@ function drawRow(
     rows.push(j, prior * piece);
   }
   for (let p = start; p < rows.size; p++) rows.vals[p] /= total;
-  rows.rest[i] = (prior * remaining) / total / off;
+  rows.rest[i] = (prior * remaining) / total / restOff;
 }
 
 /** Scratch shared by the draws of one range. */
 interface RangeScratch extends Scratch {
   readonly m: Float64Array;
   readonly mCumulative: Float64Array;
+  /** The profile the rows' rest follows: W_g where a group pools, else m. */
+  readonly restProfile: Float64Array;
+  readonly alphas: Float64Array;
+  readonly modes: Uint8Array;
+  /** ĉ_i. */
+  readonly rowTotals: Float64Array;
 }
 
 function rangeScratch(plan: DrawPlan): RangeScratch {
@@ -306,25 +327,125 @@ function rangeScratch(plan: DrawPlan): RangeScratch {
     atomLogs: new Float64Array(n),
     m: new Float64Array(plan.concentration.length),
     mCumulative: new Float64Array(plan.concentration.length),
+    restProfile: new Float64Array(plan.concentration.length),
+    alphas: new Float64Array(n),
+    modes: new Uint8Array(n),
+    rowTotals: rowTotalsOf(plan),
   };
+}
+
+function rowTotalsOf(plan: DrawPlan): Float64Array {
+  const out = new Float64Array(plan.n);
+  for (let i = 0; i < plan.n; i++) {
+    let c = 0;
+    for (let k = plan.rowPtr[i]; k < plan.rowPtr[i + 1]; k++) c += plan.effective[k];
+    out[i] = c;
+  }
+  return out;
+}
+
+/** A row above this part of its group's Σ w²/(α+1) is not pooled (see `drawPooled`). */
+export const POOL_HEAVY = 0.02;
+const ROW_CELLS = 0;
+const ROW_STICKS = 1;
+const ROW_POOLED = 2;
+type RowMode = typeof ROW_CELLS | typeof ROW_STICKS | typeof ROW_POOLED;
+
+/**
+ * The pooled prior direction of each group with pooled rows (`settings.posterior` "pooled"): one
+ * W_g ~ Dirichlet(A_g·m_g) per draw, where A_g matches, to first order, the covariance that the
+ * rows' independent prior parts give the s-weighted column sums that move the shares
+ * (s·dA): with w_i = s_i·α_i/(ĉ_i+α_i) over the group's pooled rows,
+ * A_g + 1 = (Σ w_i)² / Σ w_i²/(α_i+1), since Cov Dirichlet(α·m) = (diag m − m mᵀ)/(α+1).
+ * The matching ignores that row i's prior leaves out column i, so rows heavy in the sum are drawn
+ * per cell instead. Other groups' rest follows m_g.
+ */
+function drawPooled(
+  plan: DrawPlan,
+  scratch: RangeScratch,
+  gamma: GammaSampler,
+  groups: number,
+): void {
+  const { n, profileOf, start } = plan;
+  const { m, restProfile, alphas, modes, rowTotals } = scratch;
+  restProfile.set(m);
+  const sum = new Float64Array(groups);
+  const squares = new Float64Array(groups);
+  const weight = (i: number): number => (start[i] * alphas[i]) / (rowTotals[i] + alphas[i]);
+  // A row that carries more than POOL_HEAVY of its group's Σ w²/(α+1) is drawn per cell: its own
+  // column is left out of its prior, which a pooled direction would miss (a leader's row would
+  // inflate the leader's own spread). One pass: the rest each carry little.
+  for (let pass = 0; pass < 2; pass++) {
+    sum.fill(0);
+    squares.fill(0);
+    for (let i = 0; i < n; i++) {
+      if (modes[i] !== ROW_POOLED) continue;
+      const w = weight(i);
+      sum[profileOf[i]] += w;
+      squares[profileOf[i]] += (w * w) / (alphas[i] + 1);
+    }
+    if (pass === 1) break;
+    for (let i = 0; i < n; i++) {
+      if (modes[i] !== ROW_POOLED) continue;
+      const w = weight(i);
+      if ((w * w) / (alphas[i] + 1) > POOL_HEAVY * squares[profileOf[i]]) modes[i] = ROW_CELLS;
+    }
+  }
+  for (let g = 0; g < groups; g++) {
+    if (!(squares[g] > 0)) continue;
+    const strength = Math.max(1e-3, (sum[g] * sum[g]) / squares[g] - 1);
+    const base = g * n;
+    let max = Number.NEGATIVE_INFINITY;
+    for (let j = base; j < base + n; j++) {
+      const log = gamma.logGamma(strength * m[j]);
+      restProfile[j] = log;
+      if (log > max) max = log;
+    }
+    let total = 0;
+    for (let j = base; j < base + n; j++) {
+      restProfile[j] = Math.exp(restProfile[j] - max);
+      total += restProfile[j];
+    }
+    for (let j = base; j < base + n; j++) restProfile[j] /= total;
+  }
 }
 
 function drawMatrixInto(plan: DrawPlan, k: number, scratch: RangeScratch): AttentionRows {
   const { n, grid, cumulative, concentration } = plan;
   const G = grid.length;
-  const { m, mCumulative } = scratch;
+  const { m, mCumulative, alphas, modes } = scratch;
   const rng = createDrawRng(plan.seed, k);
   const gamma = createGammaSampler(rng);
   const next = () => rng.next();
   drawProfiles(concentration, n, plan.hubs, gamma, next, m, mCumulative);
   const rows = new RowBuilder(n, plan.effective.length + 8 * n);
-  const exact = posteriorMethod(n) === "exact";
+  const exact = plan.forceExact === true || posteriorMethod(n) === "exact";
   const stickCost = Math.log(1 / STICK_REMAINDER);
+  let restProfile = m;
+  if (!exact) {
+    // Strengths first: the pooled directions depend on which rows pool and how strongly.
+    for (let i = 0; i < n; i++) {
+      const g = G === 1 ? 0 : searchCumulative(cumulative, i * G, (i + 1) * G, rng.next());
+      alphas[i] = grid[g];
+      modes[i] = alphas[i] * stickCost >= n - 1 ? ROW_POOLED : ROW_STICKS;
+    }
+    drawPooled(plan, scratch, gamma, concentration.length / n);
+    restProfile = scratch.restProfile;
+  }
   for (let i = 0; i < n; i++) {
-    const g = G === 1 ? 0 : searchCumulative(cumulative, i * G, (i + 1) * G, rng.next());
-    const alpha = grid[g];
-    const perCell = exact || alpha * stickCost >= n - 1;
-    if (n > 1) drawRow(plan, i, alpha, m, mCumulative, perCell, gamma, next, rows, scratch);
+    let alpha: number;
+    let mode: RowMode;
+    if (exact) {
+      const g = G === 1 ? 0 : searchCumulative(cumulative, i * G, (i + 1) * G, rng.next());
+      alpha = grid[g];
+      mode = ROW_CELLS;
+    } else {
+      alpha = alphas[i];
+      mode = modes[i] as RowMode;
+    }
+    if (n > 1) {
+      drawRow(plan, i, alpha, m, mCumulative, restProfile, mode, gamma, next, rows, scratch);
+    }
     rows.rowPtr[i + 1] = rows.size;
   }
   return {
@@ -333,7 +454,7 @@ function drawMatrixInto(plan: DrawPlan, k: number, scratch: RangeScratch): Atten
     colIdx: rows.cols.subarray(0, rows.size),
     values: rows.vals.subarray(0, rows.size),
     rest: rows.rest,
-    profile: Float64Array.from(m),
+    profile: Float64Array.from(restProfile),
     profileOf: plan.profileOf,
   };
 }
