@@ -4,7 +4,9 @@
  * the same plan: every member's posterior mean and spread of the share, and the 90% interval ends
  * of the largest share. The exact draws are the reference (their Dirichlet moments are checked in
  * gamma-sampler.test.ts). Tolerances are Monte Carlo errors of K = 600 draws (common practice: the
- * standard error of a standard deviation is about sd/√(2K), 3% here).
+ * standard error of a standard deviation is about sd/√(2K), 3% here). Checked on 2026-12-03 by
+ * breaking the code on purpose: pooling the leader's own row too (POOL_HEAVY = 2) fails the mean
+ * check; a pooled strength of √(A_g) in place of A_g fails the spread check (ratio 1.63).
  */
 import { describe, expect, it } from "vitest";
 import { buildAttentionPrior, pointRowsFromPrior } from "../../src/influence/attention-prior.js";
