@@ -196,8 +196,13 @@ function logHubMarginal(x: number, mean: number, range: number): number {
  */
 export function fitPopularity(x: ArrayLike<number>): Popularity {
   const n = x.length;
-  const { popularityGridPoints: G, popularityGridLow, popularityGridHigh, hubShare, hubRange } =
-    PRIOR_DEFAULTS;
+  const {
+    popularityGridPoints: G,
+    popularityGridLow,
+    popularityGridHigh,
+    hubShare,
+    hubRange,
+  } = PRIOR_DEFAULTS;
   const hubProbability = new Float64Array(n);
   let total = 0;
   for (let j = 0; j < n; j++) total += x[j];
