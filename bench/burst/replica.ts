@@ -111,7 +111,6 @@ const bot = createBot({
   scheduling: {
     leaseMs,
     lookbackMs: DAY_MS,
-    notSent: (error) => retryAfterOf(error) !== null,
   },
 });
 

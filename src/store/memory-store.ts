@@ -173,7 +173,9 @@ class MemoryStore implements Store {
   ): Promise<boolean> {
     const claim = this.claims.get(claimId(key));
     if (claim === undefined || claim.status !== "posting") return false;
-    if (key.claimedBy === null ? !(claim.leaseUntil < key.now) : claim.claimedBy !== key.claimedBy) {
+    if (
+      key.claimedBy === null ? !(claim.leaseUntil < key.now) : claim.claimedBy !== key.claimedBy
+    ) {
       return false;
     }
     const { settlement } = key;

@@ -10,6 +10,7 @@ import type { PostedEntry } from "../../src/schedule/tick-report.js";
 import { createMemoryStore } from "../../src/store/memory-store.js";
 import { openSqliteStore } from "../../src/store/open-store.js";
 import {
+  failure,
   HOUR,
   MINUTE,
   makeScheduler,
@@ -219,12 +220,11 @@ describe("digests on each channel's schedule", () => {
     const store = await memoryStore("c1", "c2");
     const slot = Date.UTC(2026, 10, 2, 9, 0);
     const clock = new ManualClock(slot);
-    const limited = Object.assign(new Error("rate limited"), { unsent: true });
+    const limited = failure({ outcome: "not-sent", retryAfterMs: null }, "rate limited");
     const { scheduler, platform } = makeScheduler({
       store,
       clock,
       leaseMs: 10 * MINUTE,
-      notSent: (error) => (error as { unsent?: boolean }).unsent === true,
       readSettings: settingsMap({ c2: { digest: { weekday: 1, time: "10:00" } } }),
     });
     platform.failures.push(limited, limited);
