@@ -78,6 +78,8 @@ const platform = new SlackPlatform({
       client.chat.postEphemeral(args as unknown as webApi.ChatPostEphemeralArguments),
     update: (args) => client.chat.update(args as unknown as webApi.ChatUpdateArguments),
   },
+  history: (args) =>
+    client.conversations.history(args as unknown as webApi.ConversationsHistoryArguments),
   upload: async () => ({ ok: false }),
   queue,
   directory: new MemberDirectory({

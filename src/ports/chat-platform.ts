@@ -67,8 +67,8 @@ export interface ChatPlatform {
     message: OutgoingMessage,
     options?: PostOptions,
   ): Promise<{ messageId: string }>;
-  /** What a failure of `postToChannel` means; absent = every failure is "unknown". */
-  describeFailure?(error: unknown): PostFailure;
+  /** What a failure of `postToChannel` in `channel` means; absent = every failure is "unknown". */
+  describeFailure?(channel: string, error: unknown): PostFailure;
   /**
    * The message id of the post carrying `marker` in the channel since `since` (epoch ms), or
    * null when the platform shows none; throws when it cannot tell (the call failed). Absent on

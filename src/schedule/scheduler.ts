@@ -329,7 +329,7 @@ export class Scheduler {
   ): Promise<void> {
     const failure: PostFailure =
       audience === "channel"
-        ? (this.deps.platform.describeFailure?.(error) ?? { outcome: "unknown" })
+        ? (this.deps.platform.describeFailure?.(holder.channel, error) ?? { outcome: "unknown" })
         : { outcome: "unknown" };
     const now = this.deps.clock.now();
     if (failure.outcome === "not-sent") {

@@ -74,7 +74,7 @@ export class RecordingPlatform implements ChatPlatform {
   }
 
   /** The meaning attached by `failure(...)`; any other error is "unknown". */
-  describeFailure(error: unknown): PostFailure {
+  describeFailure(_channel: string, error: unknown): PostFailure {
     return (error as { meaning?: PostFailure }).meaning ?? { outcome: "unknown" };
   }
 
