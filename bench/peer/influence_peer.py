@@ -7,11 +7,15 @@ arrays, sparse products with scipy.sparse, the eigenvalue with ARPACK. Its rando
 numpy's, not plumbline's, so figures agree in distribution (point estimate to the solver
 tolerance), not bit for bit.
 
-Model version mirrored: v1 (uniform background b = beta/(n-1), one aggregated Gamma for a row's
-unobserved cells, raw decayed counts), as on main at 82219e9. Model v2 (profile prior, Kish
-counts, per-cell draws, per-draw streams) landed after this script was written: until the steps
-below are updated, the bench's agreement row reports the difference and the ratio compares
-different models.
+Model version mirrored: v2 (DESIGN.md §4 version 2; DEVELOPERS.md "Model version 2", "Learnt
+popularity hyperprior", "Every cell drawn, and pooled above 64 members"), as on main at 06762e1:
+Kish effective counts, the profile's learnt popularity hyperprior with hub columns, a per-row
+strength posterior on a 25-point grid (two passes), and draws that take the profile, each row's
+strength and every cell (per cell up to 64 members; above, sticks or the group's pooled
+direction). The prior's groups come from networkx's Louvain, not graphology's: where the
+modularity reaches 0.3 the two may pick different partitions, and then the point shares differ
+(the bench's synthetic channels have one group). The sticks are drawn with the same law by a
+different route (running sums of exponentials, vectorised).
 
 Each step names the TypeScript function it mirrors, so a model change is a local edit here:
 
@@ -20,10 +24,15 @@ Each step names the TypeScript function it mirrors, so a model change is a local
   count_matrix           src/attention/build-attention-input.ts     countMatrixFromSignals (step 3)
   closed_groups          src/attention/closed-groups.ts             (step 8)
   louvain                src/attention/louvain-clusters.ts          (step 9)
-  point_rows             src/influence/attention-rows.ts            pointAttentionRows (step 4)
-  left_multiply          src/influence/attention-rows.ts            leftMultiply
+  prior_groups           src/attention/build-attention-input.ts     priorGroupsOf
+  fit_popularity         src/influence/attention-prior.ts           fitPopularity
+  profile_posterior      src/influence/attention-prior.ts           profilePosterior
+  build_prior            src/influence/attention-prior.ts           buildAttentionPrior (step 4)
+  point_rows             src/influence/attention-prior.ts           pointRowsFromPrior
+  Rows.left_multiply     src/influence/attention-rows.ts            leftMultiply
   stationary             src/influence/stationary-vector.ts         (step 5)
-  draw_rows              src/influence/posterior-draws.ts           drawInto (step 6)
+  draw_rows              src/influence/posterior-draws.ts           drawMatrixInto (step 6)
+  pooled_direction       src/influence/posterior-draws.ts           drawPooled
   second_eigenvalue      src/influence/second-eigenvalue.ts         (step 8)
   assemble               src/analysis/assemble-report.ts            (step 7, intervals)
 
