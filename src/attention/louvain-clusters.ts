@@ -53,7 +53,10 @@ export function clusterGraph(counts: CountMatrix): ClusterGraph | null {
   for (let i = 0; i < n; i++) graph.addNode(String(i));
   for (const key of [...pairs.keys()].sort((a, b) => a - b)) {
     const i = Math.floor(key / n);
-    graph.addUndirectedEdge(String(i), String(key - i * n), { weight: pairs.get(key) ?? 0 });
+    // An explicit key: graphology's generated keys cost as much as the rest of the build.
+    graph.addUndirectedEdgeWithKey(String(key), String(i), String(key - i * n), {
+      weight: pairs.get(key) ?? 0,
+    });
   }
   if (graph.size === 0) return null;
   return { n, graph };
