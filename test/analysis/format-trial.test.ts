@@ -216,6 +216,7 @@ describe("a format's largest share", () => {
       { ...settings, halfLifeDays: 0, windowDays: 14 },
       { until },
     );
+    console.log(`even channel: largest share ${top.value} (${top.low}–${top.high})`);
     expect(top.value).toBeCloseTo(check.top?.share ?? Number.NaN, 6);
     expect(top.low).toBeCloseTo(check.top?.low ?? Number.NaN, 6);
     expect(top.high).toBeCloseTo(check.top?.high ?? Number.NaN, 6);
