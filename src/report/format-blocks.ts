@@ -2,10 +2,12 @@
  * @module format-blocks
  * Format comparisons and trial verdicts as neutral blocks, in everyday words: each format's
  * figures with their ranges, which periods were left out and why, how sure the difference is,
- * and the time warning when one format ran only before the other while the channel drifted.
+ * and the time warning when one format ran only before the other while the channel drifted; and
+ * a format trial's weekly switch.
  */
 import type { FormatsReport } from "../analysis/compare-formats.js";
 import { MARGIN } from "../analysis/compare-formats.js";
+import { type TrialPlan, trialEnd, WEEK_MS } from "../analysis/format-trial.js";
 import type { Block, FigureRow } from "../domain/blocks.js";
 import { CAUTIONS_LINE } from "./cautions.js";
 import { decimal1, isoDay, percent, percentRange, probability } from "./format.js";
@@ -80,4 +82,28 @@ export function formatsBlocks(report: FormatsReport, title = "Formats compared")
 function signed(x: number): string {
   const t = x.toFixed(2);
   return x > 0 && t !== "0.00" ? `+${t}` : t === "-0.00" ? "0.00" : t.replace("-", "−");
+}
+
+/** The post at the start of a trial's week `week` (0-based, ≥ 1): which format runs now. */
+export function trialWeekBlocks(plan: TrialPlan, week: number): Block[] {
+  const format = plan.schedule[week];
+  const weekEnd = isoDay(new Date(plan.start + (week + 1) * WEEK_MS).toISOString());
+  const last = week === plan.weeks - 1;
+  const next = last
+    ? `This is the trial's last week; the bot posts the result on ${isoDay(new Date(trialEnd(plan)).toISOString())}.`
+    : `Next week: ${plan.schedule[week + 1]}.`;
+  return [
+    {
+      kind: "heading",
+      text: `Format trial · week ${week + 1} of ${plan.weeks}: ${format}`,
+    },
+    {
+      kind: "note",
+      text: `From now until ${weekEnd} the channel runs its discussion as ${format}; replies and mentions in this week count for ${format}. ${next}`,
+    },
+    {
+      kind: "note",
+      text: `The formats ${plan.a} and ${plan.b} take turns week by week, so a drift over the weeks or one busy week falls on both. /influence format list shows the plan.`,
+    },
+  ];
 }
