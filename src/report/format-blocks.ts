@@ -12,6 +12,29 @@ import type { Block, FigureRow } from "../domain/blocks.js";
 import { CAUTIONS_LINE } from "./cautions.js";
 import { decimal1, isoDay, percent, percentRange, probability } from "./format.js";
 
+/**
+ * True when the figure as printed lies above its range as printed. Balance (and effective voices)
+ * peak at a perfectly even channel, so on a very even one every uncertain reading falls below the
+ * point; the range then sits just under it (e.g. 1.00 with 0.95–0.99).
+ */
+function aboveRange(f: FormatsReport["formats"][number]): boolean {
+  if (!f.balance || !f.effectiveVoices) return false;
+  const b = f.balance;
+  const ev = f.effectiveVoices;
+  return (
+    Number(b.value.toFixed(2)) > Number(b.high.toFixed(2)) ||
+    Number(decimal1(ev.value)) > Number(decimal1(ev.high))
+  );
+}
+
+/** The note for formats whose balance is printed above its range; null when none is. */
+export function aboveRangeNote(report: FormatsReport): string | null {
+  const names = report.formats.filter(aboveRange).map((f) => f.format);
+  if (names.length === 0) return null;
+  const which = names.length === 1 ? names[0] : names.join(" and ");
+  return `For ${which} the range lies just below the figure: balance cannot go past 1.00, and on a channel this even every uncertain reading falls below it. Read it as "about as even as this much data can show", at least the range's lower end.`;
+}
+
 function formatRow(f: FormatsReport["formats"][number]): FigureRow {
   if (!f.balance || !f.effectiveVoices || !f.topShare) {
     return {
@@ -54,6 +77,8 @@ export function formatsBlocks(report: FormatsReport, title = "Formats compared")
     return blocks;
   }
   blocks.push({ kind: "figures", rows: report.formats.map(formatRow) });
+  const above = aboveRangeNote(report);
+  if (above !== null) blocks.push({ kind: "note", text: above });
   const left = report.periods.filter((p) => p.leftOut !== null);
   if (left.length > 0) {
     blocks.push({

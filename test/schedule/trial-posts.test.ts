@@ -95,6 +95,11 @@ describe("a format trial's posts", () => {
     const result = platform.posts[3].text;
     expect(result).toMatch(/"rotating-hosts" spread influence more evenly than "coordinator-led"/);
     expect(result).toContain("not a measure of anyone's worth");
+    // The even format's balance is printed above its range (the known ceiling effect), so the
+    // post says why; the concentrated one's is inside its range and gets no such note.
+    expect(result).toMatch(/rotating-hosts +balance 1\.00 \(0\.\d\d–0\.9\d\)/);
+    expect(result).toContain("For rotating-hosts the range lies just below the figure");
+    expect(result).not.toContain("For coordinator-led the range");
     // The switches are in the ledger at their planned times.
     const snapshot = await b.loadSnapshot(CHANNEL);
     expect(formatAt(snapshot.formats ?? [], T0 + WEEK + 1)).toBe("rotating-hosts");

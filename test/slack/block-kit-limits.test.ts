@@ -53,6 +53,19 @@ describe("Block Kit limits for every message the bot sends", async () => {
 
   it("covers every kind of message", () => {
     expect(messages.length).toBeGreaterThanOrEqual(20);
+    // Every meeting-format message (issue 16) is in the catalogue.
+    expect(messages.map((m) => m.name)).toEqual(
+      expect.arrayContaining([
+        "format set",
+        "format end",
+        "format list",
+        "compare formats",
+        "format trial (plan)",
+        "trial week switch",
+        "trial result",
+        "digest with format line",
+      ]),
+    );
   });
 
   for (const { name, message } of messages) {
