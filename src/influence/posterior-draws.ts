@@ -273,7 +273,8 @@ function drawRow(
     // Linear space: the same generator calls in the same order as the log path below, without a
     // log and an exp per variate (see gamma-sampler's LINEAR_MIN_SHAPE for when that is safe).
     rows.reserve(hi - lo);
-    rows.cols.set(colIdx.subarray(lo, hi), rows.size);
+    const cols = rows.cols;
+    for (let k = lo, p = rows.size; k < hi; k++, p++) cols[p] = colIdx[k];
     let total = gamma.fillGammaAt(observed, lo, hi, rows.vals, rows.size);
     rows.size += hi - lo;
     const prior = gamma.gammaAt(scratch.strengths, alphaIndex);
