@@ -11,10 +11,15 @@
  * (ratio above 0.75 after a few rounds) — the laziness moves every eigenvalue other than 1 into
  * the disc |z − ½| ≤ ½, so periodic or nearly bipartite attention still converges. The caller
  * decides uniqueness: with several closed groups the result depends on the start.
+ * When the chain nearly splits (a second eigenvalue within 1e−3 of 1, as a drawn matrix of two
+ * cliques can be), the power method would need tens of thousands of rounds; once the observed
+ * contraction predicts that finishing costs more than a dense GTH solve (dense-stationary.ts), and
+ * n ≤ 3,000, it solves densely instead — exact to rounding, deterministic, and cheaper.
  */
 
 import { PlumblineError } from "../domain/errors.js";
 import { type AttentionRows, leftMultiply } from "./attention-rows.js";
+import { DENSE_STATIONARY_LIMIT, denseStationaryVector } from "./dense-stationary.js";
 
 export interface StationaryOptions {
   /** σ of DESIGN.md §4.4, in [0, 1). */
@@ -37,6 +42,8 @@ const DEFAULTS = {
   probeRounds: 4,
   slowRatio: 0.75,
   lazySelfWeight: 0.5,
+  /** Rounds between checks of whether a dense solve would finish sooner. */
+  denseCheckEvery: 32,
 } as const;
 
 /** Guards the self-weight setting σ of DESIGN.md §4. */
@@ -89,6 +96,10 @@ export function stationaryVector(
   let previousChange = Number.POSITIVE_INFINITY;
   let x: Float64Array = initialVector(n, options.start);
   let y: Float64Array = new Float64Array(n);
+  const roundCost = rows.values.length + 3 * n;
+  const denseCost = (n * n * n) / 3;
+  let checkpointChange = Number.POSITIVE_INFINITY;
+  let denseTried = false;
   for (let iteration = 1; iteration <= maxIterations; iteration++) {
     leftMultiply(rows, x, y);
     let sum = 0;
@@ -115,6 +126,21 @@ export function stationaryVector(
       sigma = DEFAULTS.lazySelfWeight;
     }
     previousChange = change;
+    if (!denseTried && iteration % DEFAULTS.denseCheckEvery === 0) {
+      // Contraction per round over the last checkpoint interval, and the rounds still needed.
+      const ratio = (change / checkpointChange) ** (1 / DEFAULTS.denseCheckEvery);
+      checkpointChange = change;
+      const remaining = ratio < 1 ? Math.log(tolerance / change) / Math.log(ratio) : Infinity;
+      const budget = Math.min(remaining, maxIterations - iteration);
+      if (
+        n <= DENSE_STATIONARY_LIMIT &&
+        (remaining > maxIterations - iteration || budget * roundCost > denseCost)
+      ) {
+        denseTried = true;
+        const dense = denseStationaryVector(rows);
+        if (dense) return { vector: dense, iterations: iteration };
+      }
+    }
   }
   throw new PlumblineError(
     "NO_CONVERGENCE",

@@ -102,7 +102,11 @@ describe("stationary vector against reference libraries", () => {
     }
   });
 
-  it("throws NO_CONVERGENCE on a nearly split room within a small iteration budget", () => {
+  it("solves a nearly split room exactly, where the power method would crawl (GTH)", () => {
+    // Two pairs joined by links of weight ε: |λ2| of the lazy chain is 1 − O(ε), so power
+    // iteration from (1,0,0,0) would need ~1e10 rounds. The balance equations, solved by hand,
+    // give π0 = π2 = π3 and π1 = (1 − ε')π0 with ε' = ε/(5 + ε) the weak links' row share.
+    // The dense GTH solve is Grassmann, Taksar & Heyman 1985 (Operations Research 33:1107–1116).
     const weak = 1e-9;
     const dense = [
       [0, 5, weak, 0],
@@ -111,12 +115,38 @@ describe("stationary vector against reference libraries", () => {
       [weak, 0, 5, 0],
     ];
     const rows = pointAttentionRows(countsFromDense(dense), 0);
+    const { vector, iterations } = stationaryVector(rows, {
+      selfWeight: 0.5,
+      maxIterations: 2000,
+      start: Float64Array.of(1, 0, 0, 0),
+    });
+    const e = weak / (5 + weak);
+    const total = 4 - e;
+    const expected = [1 / total, (1 - e) / total, 1 / total, 1 / total];
+    for (let j = 0; j < 4; j++) expect(Math.abs(vector[j] - expected[j])).toBeLessThan(1e-12);
+    expect(iterations).toBeLessThan(2000);
+  });
+
+  it("throws NO_CONVERGENCE when the room also has a closed group and the budget runs out", () => {
+    // The same nearly split pair of pairs plus members 4 and 5 who only attend to each other:
+    // the chain is reducible, GTH finds no pivot, and from (1,0,…) the power method cannot
+    // settle within 2,000 rounds.
+    const weak = 1e-9;
+    const dense = [
+      [0, 5, weak, 0, 0, 0],
+      [5, 0, 0, 0, 0, 0],
+      [0, 0, 0, 5, 0, 0],
+      [weak, 0, 5, 0, 0, 0],
+      [0, 0, 0, 0, 0, 3],
+      [0, 0, 0, 0, 3, 0],
+    ];
+    const rows = pointAttentionRows(countsFromDense(dense), 0);
     let code = "";
     try {
       stationaryVector(rows, {
         selfWeight: 0.5,
         maxIterations: 2000,
-        start: Float64Array.of(1, 0, 0, 0),
+        start: Float64Array.of(1, 0, 0, 0, 0, 0),
       });
     } catch (error) {
       if (isPlumblineError(error)) code = error.code;
