@@ -2,11 +2,12 @@
  * @module burst/run
  * `npm run bench:burst`: the Monday-morning burst (issue 17). N channels (default 1,000) of 20–200
  * invented members each, with four weeks of seeded activity (bench/synthetic-channel.ts, three
- * messages per member), all with the default digest (Monday 09:00 UTC), are stored in one
- * PostgreSQL database under a schema of this run's own. Then, for 1, 2 and 3 replica processes and
+ * messages per member; `--patterns` of them ingested, the rest SQL copies), all with the default
+ * digest (Monday 09:00 UTC), are stored in one PostgreSQL database under a schema of this run's
+ * own. Then, for 1, 2 and 3 replica processes and
  * once more with 3 where one is SIGKILLed when half the digests are out, every replica starts at
  * simulated Monday 09:00:30 and the run ends when every channel's claim is final. Slack is faked on
- * loopback with its per-channel pacing (429 + Retry-After). Prints one table: time until the last
+ * loopback with its per-channel and workspace pacing (429 + Retry-After). Prints one table: time until the last
  * digest, posts per (channel, period), misses with their reasons, each replica's share of posts,
  * peak RSS, SQL statements per digest, and for the kill run how long the takeover took.
  *
