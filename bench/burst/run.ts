@@ -7,9 +7,10 @@
  * own. Then, for 1, 2 and 3 replica processes and
  * once more with 3 where one is SIGKILLed when half the digests are out, every replica starts at
  * simulated Monday 09:00:30 and the run ends when every channel's claim is final. Slack is faked on
- * loopback with its per-channel and workspace pacing (429 + Retry-After). Prints one table: time until the last
- * digest, posts per (channel, period), misses with their reasons, each replica's share of posts,
- * peak RSS, SQL statements per digest, and for the kill run how long the takeover took.
+ * loopback with its per-channel and workspace pacing (429 + Retry-After). Prints one table: time
+ * until the last digest, posts per (channel, period), misses with their reasons, each replica's
+ * share of posts, peak RSS, SQL statements per digest, and for the kill run how long the takeover
+ * took.
  *
  * Options: --channels N (default 1000), --lease S (claim lease in seconds, default 20),
  * --cap S (time cap for all runs together, default 1500), --runs 1,2,3,3k (default all),
