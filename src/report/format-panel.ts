@@ -75,7 +75,11 @@ export function formatsSection(report: FormatsReport): string {
   const periods = report.periods.map((p) => {
     const until = p.open ? "now" : isoDay(p.end);
     const counted = p.leftOut === null ? "counted" : `left out: ${p.leftOut}`;
-    return `<tr><th scope="row">${html(p.format)}</th><td>${html(`${isoDay(p.start)}..${until}`)}</td><td>${p.members}</td><td>${p.signals}</td><td>${html(counted)}</td></tr>`;
+    // A period too short for figures is not read at all: its counts are unknown, not zero.
+    const short = p.leftOut === "too short";
+    const members = short ? "–" : String(p.members);
+    const signals = short ? "–" : String(p.signals);
+    return `<tr><th scope="row">${html(p.format)}</th><td>${html(`${isoDay(p.start)}..${until}`)}</td><td>${members}</td><td>${signals}</td><td>${html(counted)}</td></tr>`;
   });
   const periodTable = `<details class="chart-table"><summary>Table: every format period</summary><div class="scroll-x"><table><thead><tr><th scope="col">format</th><th scope="col">dates</th><th scope="col">active members</th><th scope="col">replies and mentions</th><th scope="col">in the comparison</th></tr></thead><tbody>${periods.join("")}</tbody></table></div></details>`;
   return [
