@@ -169,7 +169,7 @@ async function pairedSize(
       unit: "",
       target: "≤ 2e-6",
       met: agreement <= 2e-6,
-      note: "the peer is model v1 (see its docstring): MISSED means the TS model moved on and the peer needs the same change",
+      note: "the peer mirrors model v2 (its docstring): MISSED means the TS model moved on and the peer needs the same change, or the two Louvain implementations found different prior groups",
     },
   );
   return { rows, log, ours };
