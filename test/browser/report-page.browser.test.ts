@@ -168,7 +168,9 @@ describe.skipIf(skip)("report page in Chromium", () => {
         "--disable-sync",
       ],
     });
-  });
+    // Three full reports with their weekly histories and the demo's formats: minutes, not
+    // seconds, on a shared machine.
+  }, 600_000);
 
   afterAll(async () => {
     await browser?.close();
