@@ -131,15 +131,19 @@ class RowBuilder {
     this.rowPtr.fill(0);
     this.rest.fill(0);
   }
+  /** Makes room for `count` more entries. */
+  reserve(count: number): void {
+    if (this.size + count <= this.cols.length) return;
+    const capacity = Math.max(this.cols.length * 2, this.size + count);
+    const cols = new Int32Array(capacity);
+    cols.set(this.cols);
+    this.cols = cols;
+    const vals = new Float64Array(capacity);
+    vals.set(this.vals);
+    this.vals = vals;
+  }
   push(col: number, value: number): void {
-    if (this.size === this.cols.length) {
-      const cols = new Int32Array(this.cols.length * 2);
-      cols.set(this.cols);
-      this.cols = cols;
-      const vals = new Float64Array(this.vals.length * 2);
-      vals.set(this.vals);
-      this.vals = vals;
-    }
+    if (this.size === this.cols.length) this.reserve(1);
     this.cols[this.size] = col;
     this.vals[this.size] = value;
     this.size++;
@@ -268,12 +272,11 @@ function drawRow(
   if (mode !== ROW_CELLS && scratch.linear[i] === 1 && scratch.strengths !== null) {
     // Linear space: the same generator calls in the same order as the log path below, without a
     // log and an exp per variate (see gamma-sampler's LINEAR_MIN_SHAPE for when that is safe).
-    let total = 0;
-    for (let k = lo; k < hi; k++) {
-      const g = gamma.gammaAt(observed, k);
-      rows.push(colIdx[k], g);
-      total += g;
-    }
+    rows.reserve(hi - lo);
+    const cols = rows.cols;
+    for (let k = lo, p = rows.size; k < hi; k++, p++) cols[p] = colIdx[k];
+    let total = gamma.fillGammaAt(observed, lo, hi, rows.vals, rows.size);
+    rows.size += hi - lo;
     const prior = gamma.gammaAt(scratch.strengths, alphaIndex);
     total += prior;
     finishPriorPart(plan, i, alpha, prior, total, start, mCumulative, restOff, mode, next, rows);
