@@ -13,9 +13,10 @@ import type {
   CommandDeps,
   CommandResponse,
 } from "../src/commands/command-types.js";
-import { digestFormatLine, trialVerdictLine } from "../src/commands/format-commands.js";
+import { digestFormatLine } from "../src/commands/format-commands.js";
 import { handleCommand } from "../src/commands/handle-command.js";
 import { namingPolicy } from "../src/commands/member-view.js";
+import { dueTrialPosts } from "../src/commands/trial-posts.js";
 import { analysisSettingsFor } from "../src/domain/channel-settings.js";
 import type { ChatEvent } from "../src/domain/events.js";
 import { DAY_MS } from "../src/domain/settings.js";
@@ -98,10 +99,8 @@ export function createBot(options: BotOptions): Bot {
       namesOn: settings.names,
       disclosure: { snapshot, minMembers: settings.minMembers },
     });
-    const formatLines = [
-      await digestFormatLine(store, channel, slotAt),
-      await trialVerdictLine(store, channel, slotAt),
-    ].filter((line): line is string => line !== null);
+    const formatLine = await digestFormatLine(store, channel, slotAt);
+    const formatLines = formatLine === null ? [] : [formatLine];
     return digestMessage({
       report,
       previous: previous.sufficient ? previous : null,
@@ -164,6 +163,7 @@ export function createBot(options: BotOptions): Bot {
     readSettings: (channel) => readChannelSettings(store, channel),
     composeDigest,
     composeNote,
+    duePosts: (channel, now) => dueTrialPosts(store, channel, now),
     sendToFacilitators,
     ...options.scheduling,
   });

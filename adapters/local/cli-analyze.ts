@@ -26,11 +26,13 @@ async function prepare(
   io: CliIo,
   usage: string,
   extra: Record<string, { type: "string" }> = {},
+  beforeLoad?: (settings: AnalysisSettings) => void,
 ) {
   const parsed = parseCommandArgs(argv, { ...ANALYSIS_OPTIONS, ...extra }, usage);
   const settings: AnalysisSettings = settingsFromFlags(parsed.values);
   const until =
     typeof parsed.values.until === "string" ? parseUntil(parsed.values.until) : undefined;
+  beforeLoad?.(settings);
   const source = await loadChannel({
     parsed,
     io,
@@ -47,8 +49,11 @@ async function prepare(
  * draws split over the pool's threads; compare and what-if as whole jobs on a worker. With the
  * progress line after 2 s.
  */
-async function runOnPool<J extends AnalysisJob>(io: CliIo, job: J): Promise<ResultOf<J>> {
-  const pool = new WorkerPool({ size: poolSize(io.env) });
+async function runOnPool<J extends AnalysisJob>(
+  io: CliIo,
+  job: J,
+  pool = new WorkerPool({ size: poolSize(io.env) }),
+): Promise<ResultOf<J>> {
   const now = io.now;
   const onProgress = now ? progressLine({ now, write: io.stderr }) : undefined;
   try {
@@ -69,13 +74,22 @@ function print(io: CliIo, json: boolean, value: unknown, text: () => string): vo
 
 export async function runAnalyze(argv: readonly string[], io: CliIo): Promise<number> {
   const usage = `plumbline analyze ${SOURCE} [flags] [--json]`;
-  const { parsed, settings, until, snapshot } = await prepare(argv, io, usage);
-  const report = await runOnPool(io, {
-    kind: "analyze",
-    snapshot,
-    settings,
-    ...(until === undefined ? {} : { until }),
+  // The draws' workers start loading while this thread reads the log (one core is idle then);
+  // runOnPool closes the pool, and so does the catch below when reading fails.
+  const started: { pool?: WorkerPool } = {};
+  const { parsed, settings, until, snapshot } = await prepare(argv, io, usage, {}, (settings) => {
+    if (settings.samples === 0) return;
+    started.pool = new WorkerPool({ size: poolSize(io.env) });
+    started.pool.warm();
+  }).catch(async (error: unknown) => {
+    await started.pool?.close();
+    throw error;
   });
+  const report = await runOnPool(
+    io,
+    { kind: "analyze", snapshot, settings, ...(until === undefined ? {} : { until }) },
+    started.pool,
+  );
   print(io, parsed.values.json === true, report, () =>
     // The JSON keeps every figure for the operator; the text follows the chat's disclosure rules
     // as a facilitator outside the channel's members would read them privately.

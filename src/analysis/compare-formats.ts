@@ -197,9 +197,13 @@ function runPeriod(
   const voicesDraws = Float64Array.from(influence.effectiveVoicesDraws);
   const balanceDraws = new Float64Array(k);
   const topDraws = new Float64Array(k);
+  // The largest share is the share of the member largest in the point estimate, drawn from that
+  // member's draws (as a check's top figure is). The largest entry of each draw would be biased
+  // upward: with many members of similar shares some member is high in every draw by chance.
+  const topIndex = outcome.input.counts.members.indexOf(report.top?.member ?? "");
   for (let i = 0; i < k; i++) {
     balanceDraws[i] = voicesDraws[i] / report.members;
-    topDraws[i] = Math.max(...influence.draws[i]);
+    topDraws[i] = influence.draws[i][topIndex];
   }
   return { figures, start, end, balanceDraws, voicesDraws, topDraws };
 }

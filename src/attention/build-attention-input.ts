@@ -16,7 +16,7 @@ import type { AnalysisSettings } from "../domain/settings.js";
 import { deriveSeed } from "../ports/rng.js";
 import { findClosedGroups } from "./closed-groups.js";
 import { collectSignals, type Signal } from "./collect-signals.js";
-import { type Clusters, louvainClusters } from "./louvain-clusters.js";
+import { type Clusters, clusterGraph, louvainClusters } from "./louvain-clusters.js";
 
 /**
  * Builds the `AttentionInput` of `snapshot` at `settings.until`. The Louvain seed is
@@ -37,8 +37,10 @@ export function buildAttentionInput(
   const counts = countMatrixFromSignals(set.members, set.signals);
   const wantClusters = settings.clusters && set.labels.every((label) => label === null);
   const seed = options.seed ?? settings.seed ?? deriveSeed(snapshot.channel, settings.until);
-  // The prior's groups use a fixed Louvain seed, so the seed moves only the intervals.
-  const priorClusters = louvainClusters(counts, { seed: PRIOR_GROUP_SEED });
+  // The prior's groups use a fixed Louvain seed, so the seed moves only the intervals. Both runs
+  // share one graph.
+  const graph = clusterGraph(counts);
+  const priorClusters = louvainClusters(counts, { seed: PRIOR_GROUP_SEED, graph });
   return {
     counts,
     signals: set.count,
@@ -46,7 +48,7 @@ export function buildAttentionInput(
     closedGroups: findClosedGroups(counts),
     named: set.named,
     labels: set.labels,
-    clusters: wantClusters ? louvainClusters(counts, { seed }) : null,
+    clusters: wantClusters ? louvainClusters(counts, { seed, graph }) : null,
     priorGroups: priorGroupsOf(counts.members.length, priorClusters),
   };
 }

@@ -26,8 +26,17 @@ export interface Clusters {
   readonly modularity: number;
 }
 
-/** Seeded Louvain clusters of C + Cᵀ; null when no two members exchanged any attention. */
-export function louvainClusters(counts: CountMatrix, options: { seed: number }): Clusters | null {
+/** The undirected graph of C + Cᵀ that Louvain runs on (null: no attention between members). */
+export interface ClusterGraph {
+  readonly n: number;
+  readonly graph: UndirectedGraph<Record<string, never>, { weight: number }>;
+}
+
+/**
+ * Builds the graph once, so several seeded runs on the same counts (the prior's groups and the
+ * report's clusters) do not rebuild it: building took as long as one Louvain run at 2,000 members.
+ */
+export function clusterGraph(counts: CountMatrix): ClusterGraph | null {
   const n = counts.members.length;
   const { rowPtr, colIdx, values } = counts;
   // C + Cᵀ per unordered pair, summed first so each edge is added to the graph once.
@@ -44,10 +53,23 @@ export function louvainClusters(counts: CountMatrix, options: { seed: number }):
   for (let i = 0; i < n; i++) graph.addNode(String(i));
   for (const key of [...pairs.keys()].sort((a, b) => a - b)) {
     const i = Math.floor(key / n);
-    graph.addUndirectedEdge(String(i), String(key - i * n), { weight: pairs.get(key) ?? 0 });
+    // An explicit key: graphology's generated keys cost as much as the rest of the build.
+    graph.addUndirectedEdgeWithKey(String(key), String(i), String(key - i * n), {
+      weight: pairs.get(key) ?? 0,
+    });
   }
   if (graph.size === 0) return null;
+  return { n, graph };
+}
 
+/** Seeded Louvain clusters of C + Cᵀ; null when no two members exchanged any attention. */
+export function louvainClusters(
+  counts: CountMatrix,
+  options: { seed: number; graph?: ClusterGraph | null },
+): Clusters | null {
+  const built = options.graph === undefined ? clusterGraph(counts) : options.graph;
+  if (built === null) return null;
+  const { n, graph } = built;
   const rng = createSeededRng(options.seed);
   const result = louvain.detailed(graph, {
     getEdgeWeight: "weight",

@@ -5,8 +5,9 @@
  * weeks N [random [seed S]]` plans a trial, and `compare formats [A B]` compares them. Starting,
  * ending and planning are for facilitators; a refused or invalid request changes nothing.
  * A trial's plan is kept in the channel state `format-trial`; its week switches are format events
- * recorded when due (`applyTrialSwitches`, called by commands and the digest), so the ledger holds
- * what actually ran.
+ * recorded when due (`applyTrialSwitches`, called by commands, the digest and the scheduler's
+ * trial posts), so the ledger holds what actually ran; trial-posts.ts says what the scheduler
+ * posts (each week's switch, the result).
  */
 import { compareFormats, type FormatsReport } from "../analysis/compare-formats.js";
 import {
@@ -15,7 +16,6 @@ import {
   trialEnd,
   trialEvents,
   trialFormatAt,
-  trialVerdict,
   WEEK_MS,
 } from "../analysis/format-trial.js";
 import { formatAt, formatPeriods } from "../attention/format-periods.js";
@@ -26,7 +26,7 @@ import { ingest } from "../ingest/ingest.js";
 import type { Store } from "../ports/store.js";
 import { EXPLAIN_POINTER } from "../report/digest-blocks.js";
 import { isoDay, probability } from "../report/format.js";
-import { formatsBlocks, TIME_WARNING, verdictText } from "../report/format-blocks.js";
+import { formatsBlocks } from "../report/format-blocks.js";
 import { readChannelSettings } from "./channel-settings-store.js";
 import { commandOccurrence } from "./command-keys.js";
 import type { CommandContext, CommandDeps, CommandResponse } from "./command-types.js";
@@ -71,7 +71,7 @@ export interface StoredTrial {
   readonly plan: TrialPlan;
   /** Switches already recorded (index into trialEvents). */
   readonly applied: number;
-  /** Set once the verdict has been posted. */
+  /** Set once the result has been posted (a hint; the scheduler's claim posts it once). */
   readonly verdictPosted: boolean;
 }
 
@@ -95,50 +95,6 @@ export async function applyTrialSwitches(
   const next = { ...trial, applied };
   await store.writeChannelState(channel, "format-trial", next);
   return next;
-}
-
-/**
- * The trial verdict once the trial has ended and not been posted yet (marks it posted), else
- * null: the digest (or the scheduler) posts it once.
- */
-export async function takeTrialVerdict(
-  store: Store,
-  channel: string,
-  now: number,
-): Promise<Block[] | null> {
-  return (await takeTrialReport(store, channel, now))?.blocks ?? null;
-}
-
-/** The digest's line for a trial that has just ended (once), else null. */
-export async function trialVerdictLine(
-  store: Store,
-  channel: string,
-  now: number,
-): Promise<string | null> {
-  const taken = await takeTrialReport(store, channel, now);
-  if (taken === null) return null;
-  const { report } = taken;
-  if (report.pair === null) {
-    return "The format trial has ended, but too few weeks had enough replies and mentions to compare the two formats.";
-  }
-  return `The format trial has ended. ${verdictText(report.pair)}${report.pair.confoundedWithTime ? ` ${TIME_WARNING}` : ""}`;
-}
-
-async function takeTrialReport(
-  store: Store,
-  channel: string,
-  now: number,
-): Promise<{ blocks: Block[]; report: FormatsReport } | null> {
-  const trial = await applyTrialSwitches(store, channel, now);
-  if (trial === null || trial.verdictPosted || now < trialEnd(trial.plan)) return null;
-  const settings = await readChannelSettings(store, channel);
-  const snapshot = await store.loadSnapshot(channel);
-  const report = trialVerdict(snapshot, analysisSettingsFor(settings), trial.plan);
-  await store.writeChannelState(channel, "format-trial", { ...trial, verdictPosted: true });
-  return {
-    blocks: formatsBlocks(report, `Format trial result: ${trial.plan.a} against ${trial.plan.b}`),
-    report,
-  };
 }
 
 /** One line for a digest: the current format, and how it compares with the previous one so far. */

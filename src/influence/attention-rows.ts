@@ -152,6 +152,13 @@ export function leftMultiply(
     let restTotal = 0;
     for (let i = 0; i < n; i++) restTotal += x[i] * rest[i];
     for (let j = 0; j < n; j++) out[j] = profile[j] * (restTotal - x[j] * rest[j]);
+  } else if (profile.length === n) {
+    // One profile (every row's profileOf is 0): the branch below without its per-call array and
+    // index lookups, the same operations in the same order (so the same numbers).
+    let r = 0;
+    for (let i = 0; i < n; i++) r += x[i] * rest[i];
+    for (let j = 0; j < n; j++) out[j] = -x[j] * rest[j] * profile[j];
+    if (r !== 0) for (let j = 0; j < n; j++) out[j] += r * profile[j];
   } else {
     const q = profile.length / n;
     const totals = new Float64Array(q);

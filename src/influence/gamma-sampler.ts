@@ -62,9 +62,16 @@ function int32(rng: Rng): number {
 
 /** A standard normal variate by the ziggurat (Marsaglia & Tsang 2000, JSS 5(8)). */
 export function sampleNormal(rng: Rng): number {
-  let hz = int32(rng);
-  let iz = hz & 127;
+  const hz = int32(rng);
+  const iz = hz & 127;
   if (Math.abs(hz) < KN[iz]) return hz * WN[iz];
+  return normalSlow(hz, iz, rng);
+}
+
+/** The ziggurat after its first test failed for the 32-bit draw `hz` (strip `iz`). */
+function normalSlow(first: number, strip: number, rng: Rng): number {
+  let hz = first;
+  let iz = strip;
   for (;;) {
     const x = hz * WN[iz];
     if (iz === 0) {
@@ -132,6 +139,18 @@ function marsagliaTsang(d: number, c: number, rng: Rng): number {
 export interface GammaSampler {
   /** A Gamma variate from the constants at `k`; use only for shapes ≥ LINEAR_MIN_SHAPE. */
   gammaAt(constants: GammaConstants, k: number): number;
+  /**
+   * `gammaAt(constants, k)` for k = lo … hi − 1 into out[at …], returning their sum (added in
+   * that order): the same numbers from the same generator calls, with the generator inlined when
+   * it exposes its state (xoshiro128**), which measured 2–3× faster per variate here.
+   */
+  fillGammaAt(
+    constants: GammaConstants,
+    lo: number,
+    hi: number,
+    out: Float64Array,
+    at: number,
+  ): number;
   /** log of a Gamma variate from the constants at `k`; any shape > 0. */
   logGammaAt(constants: GammaConstants, k: number): number;
   /** log G with G ~ Gamma(shape, 1), constants computed on the spot (any shape > 0). */
@@ -150,9 +169,130 @@ function logGammaFrom(d: number, c: number, boost: number, rng: Rng): number {
   return boost === 0 ? log : log + Math.log(1 - rng.next()) * boost; // 1 − U in (0, 1]
 }
 
+/**
+ * `gammaFrom` for constants lo … hi − 1 with xoshiro128** stepped in local variables (its state
+ * loaded from and stored back to `rng.state`): the same calls in the same order as
+ * `gammaFrom`'s `int32`, `next32` and `next`, so the same numbers. The ziggurat's rare slow
+ * path stores the state and runs `normalSlow` on `rng` itself.
+ */
+function fillGammaInline(
+  constants: GammaConstants,
+  lo: number,
+  hi: number,
+  out: Float64Array,
+  at: number,
+  rng: Rng,
+  state: Int32Array,
+): number {
+  const { d: dd, c: cc, boost: bb } = constants;
+  let a = state[0];
+  let b = state[1];
+  let c = state[2];
+  let d = state[3];
+  let total = 0;
+  for (let k = lo; k < hi; k++) {
+    const dk = dd[k];
+    const ck = cc[k];
+    let g: number;
+    for (;;) {
+      let x: number;
+      let v: number;
+      do {
+        // int32(rng): one xoshiro128** step, the output as a signed 32-bit integer.
+        const r = Math.imul(rotl(Math.imul(b, 5), 7), 9);
+        const t = b << 9;
+        c ^= a;
+        d ^= b;
+        b ^= c;
+        a ^= d;
+        c ^= t;
+        d = rotl(d, 11);
+        const hz = r | 0;
+        const iz = hz & 127;
+        if (Math.abs(hz) < KN[iz]) x = hz * WN[iz];
+        else {
+          state[0] = a;
+          state[1] = b;
+          state[2] = c;
+          state[3] = d;
+          x = normalSlow(hz, iz, rng);
+          a = state[0];
+          b = state[1];
+          c = state[2];
+          d = state[3];
+        }
+        v = 1 + ck * x;
+      } while (v <= 0);
+      v = v * v * v;
+      // next32(): one step, the output over 2^32.
+      const r = Math.imul(rotl(Math.imul(b, 5), 7), 9);
+      const t = b << 9;
+      c ^= a;
+      d ^= b;
+      b ^= c;
+      a ^= d;
+      c ^= t;
+      d = rotl(d, 11);
+      const u = (r >>> 0) / 4294967296;
+      const x2 = x * x;
+      if (u < 1 - 0.0331 * x2 * x2 || Math.log(u) < 0.5 * x2 + dk * (1 - v + Math.log(v))) {
+        g = dk * v;
+        break;
+      }
+    }
+    const boost = bb[k];
+    if (boost !== 0) {
+      // next(): two steps, 27 + 26 bits.
+      const r1 = Math.imul(rotl(Math.imul(b, 5), 7), 9);
+      let t = b << 9;
+      c ^= a;
+      d ^= b;
+      b ^= c;
+      a ^= d;
+      c ^= t;
+      d = rotl(d, 11);
+      const r2 = Math.imul(rotl(Math.imul(b, 5), 7), 9);
+      t = b << 9;
+      c ^= a;
+      d ^= b;
+      b ^= c;
+      a ^= d;
+      c ^= t;
+      d = rotl(d, 11);
+      const uniform = ((r1 >>> 5) * 67108864 + (r2 >>> 6)) / 9007199254740992;
+      g = g * Math.exp(Math.log(1 - uniform) * boost);
+    }
+    out[at + k - lo] = g;
+    total += g;
+  }
+  state[0] = a;
+  state[1] = b;
+  state[2] = c;
+  state[3] = d;
+  return total;
+}
+
+/** Rotate a 32-bit integer left by k (as in rng.ts). */
+function rotl(x: number, k: number): number {
+  return (x << k) | (x >>> (32 - k));
+}
+
 export function createGammaSampler(rng: Rng): GammaSampler {
+  const state = rng.state;
   return {
     gammaAt: (constants, k) => gammaFrom(constants.d[k], constants.c[k], constants.boost[k], rng),
+    fillGammaAt(constants, lo, hi, out, at) {
+      if (state !== undefined && state.length === 4) {
+        return fillGammaInline(constants, lo, hi, out, at, rng, state);
+      }
+      let total = 0;
+      for (let k = lo; k < hi; k++) {
+        const g = gammaFrom(constants.d[k], constants.c[k], constants.boost[k], rng);
+        out[at + k - lo] = g;
+        total += g;
+      }
+      return total;
+    },
     logGammaAt: (constants, k) =>
       logGammaFrom(constants.d[k], constants.c[k], constants.boost[k], rng),
     logGamma(shape: number): number {

@@ -36,7 +36,13 @@ import {
   type ProfileHubs,
 } from "./attention-prior.js";
 import type { AttentionRows } from "./attention-rows.js";
-import { createGammaSampler, type GammaSampler } from "./gamma-sampler.js";
+import {
+  createGammaSampler,
+  type GammaConstants,
+  type GammaSampler,
+  gammaConstants,
+  LINEAR_MIN_SHAPE,
+} from "./gamma-sampler.js";
 import { checkSelfWeight, stationaryVector } from "./stationary-vector.js";
 
 /** Channels up to this many members draw every cell per draw (`settings.posterior` = "exact"). */
@@ -119,15 +125,25 @@ class RowBuilder {
     this.rowPtr = new Int32Array(n + 1);
     this.rest = new Float64Array(n);
   }
+  /** Empties the builder for the next draw (its arrays are reused). */
+  reset(): void {
+    this.size = 0;
+    this.rowPtr.fill(0);
+    this.rest.fill(0);
+  }
+  /** Makes room for `count` more entries. */
+  reserve(count: number): void {
+    if (this.size + count <= this.cols.length) return;
+    const capacity = Math.max(this.cols.length * 2, this.size + count);
+    const cols = new Int32Array(capacity);
+    cols.set(this.cols);
+    this.cols = cols;
+    const vals = new Float64Array(capacity);
+    vals.set(this.vals);
+    this.vals = vals;
+  }
   push(col: number, value: number): void {
-    if (this.size === this.cols.length) {
-      const cols = new Int32Array(this.cols.length * 2);
-      cols.set(this.cols);
-      this.cols = cols;
-      const vals = new Float64Array(this.vals.length * 2);
-      vals.set(this.vals);
-      this.vals = vals;
-    }
+    if (this.size === this.cols.length) this.reserve(1);
     this.cols[this.size] = col;
     this.vals[this.size] = value;
     this.size++;
@@ -156,6 +172,7 @@ function drawProfiles(
   concentration: Float64Array,
   n: number,
   hubs: ProfileHubs | undefined,
+  constants: ProfileConstants,
   gamma: GammaSampler,
   next: () => number,
   out: Float64Array,
@@ -168,8 +185,8 @@ function drawProfiles(
       const p = hubs ? hubs.probability[j - base] : 0;
       const log =
         p > 0 && next() < p
-          ? gamma.logGamma(hubs?.shape[j - base] ?? 1)
-          : gamma.logGamma(concentration[j]) - logRate;
+          ? gamma.logGammaAt(constants.hub, j - base)
+          : gamma.logGammaAt(constants.concentration, j) - logRate;
       out[j] = log;
       if (log > max) max = log;
     }
@@ -192,6 +209,18 @@ interface Scratch {
   readonly logs: Float64Array;
   readonly atoms: Int32Array;
   readonly atomLogs: Float64Array;
+  /** Marsaglia–Tsang constants of every observed cell's Gamma(Ĉ_ij), reused by all draws. */
+  readonly observed: GammaConstants;
+  /** Constants of Gamma(α) for each grid strength (null when the grid holds α = 0). */
+  readonly strengths: GammaConstants | null;
+  /** 1 where a row is drawn in linear space (its largest observed shape or α ≥ 1/16). */
+  readonly linear: Uint8Array;
+}
+
+/** Constants of the profile draws: each concentration, and each hub column's shape. */
+interface ProfileConstants {
+  readonly concentration: GammaConstants;
+  readonly hub: GammaConstants;
 }
 
 /**
@@ -201,7 +230,7 @@ interface Scratch {
 function drawRow(
   plan: DrawPlan,
   i: number,
-  alpha: number,
+  alphaIndex: number,
   m: Float64Array,
   mCumulative: Float64Array,
   restProfile: Float64Array,
@@ -211,7 +240,9 @@ function drawRow(
   rows: RowBuilder,
   scratch: Scratch,
 ): void {
-  const { n, rowPtr, colIdx, effective } = plan;
+  const { n, rowPtr, colIdx } = plan;
+  const alpha = plan.grid[alphaIndex];
+  const observed = scratch.observed;
   const lo = rowPtr[i];
   const hi = rowPtr[i + 1];
   const base = plan.profileOf[i] * n;
@@ -225,7 +256,7 @@ function drawRow(
     }
     let max = Number.NEGATIVE_INFINITY;
     for (let k = lo; k < hi; k++) {
-      const log = gamma.logGamma(effective[k]);
+      const log = gamma.logGammaAt(observed, k);
       scratch.logs[k - lo] = log;
       if (log > max) max = log;
     }
@@ -238,10 +269,23 @@ function drawRow(
     for (let p = start; p < rows.size; p++) rows.vals[p] /= total;
     return;
   }
+  if (mode !== ROW_CELLS && scratch.linear[i] === 1 && scratch.strengths !== null) {
+    // Linear space: the same generator calls in the same order as the log path below, without a
+    // log and an exp per variate (see gamma-sampler's LINEAR_MIN_SHAPE for when that is safe).
+    rows.reserve(hi - lo);
+    const cols = rows.cols;
+    for (let k = lo, p = rows.size; k < hi; k++, p++) cols[p] = colIdx[k];
+    let total = gamma.fillGammaAt(observed, lo, hi, rows.vals, rows.size);
+    rows.size += hi - lo;
+    const prior = gamma.gammaAt(scratch.strengths, alphaIndex);
+    total += prior;
+    finishPriorPart(plan, i, alpha, prior, total, start, mCumulative, restOff, mode, next, rows);
+    return;
+  }
   const logs = scratch.logs;
   let max = Number.NEGATIVE_INFINITY;
   for (let k = lo; k < hi; k++) {
-    const log = gamma.logGamma(effective[k]);
+    const log = gamma.logGammaAt(observed, k);
     logs[k - lo] = log;
     if (log > max) max = log;
   }
@@ -274,7 +318,10 @@ function drawRow(
     return;
   }
   // The prior part's total is one Gamma(α) variate.
-  const logPrior = gamma.logGamma(alpha);
+  const logPrior =
+    scratch.strengths === null
+      ? gamma.logGamma(alpha)
+      : gamma.logGammaAt(scratch.strengths, alphaIndex);
   if (logPrior > max) max = logPrior;
   let total = 0;
   for (let k = lo; k < hi; k++) {
@@ -284,6 +331,27 @@ function drawRow(
   }
   const prior = Math.exp(logPrior - max);
   total += prior;
+  finishPriorPart(plan, i, alpha, prior, total, start, mCumulative, restOff, mode, next, rows);
+}
+
+/**
+ * The prior part of row i (its Gamma(α) variate `prior`, on the scale of the row's observed
+ * variates, whose sum with it is `total`): along the pooled direction as a rest, or cut into
+ * sticks; then the row is normalised.
+ */
+function finishPriorPart(
+  plan: DrawPlan,
+  i: number,
+  alpha: number,
+  prior: number,
+  total: number,
+  start: number,
+  mCumulative: Float64Array,
+  restOff: number,
+  mode: RowMode,
+  next: () => number,
+  rows: RowBuilder,
+): void {
   if (mode === ROW_POOLED) {
     // Along the group's pooled direction W_g (drawPooled), as a rest.
     for (let p = start; p < rows.size; p++) rows.vals[p] /= total;
@@ -291,6 +359,8 @@ function drawRow(
     return;
   }
   // Stick-breaking for W.
+  const n = plan.n;
+  const base = plan.profileOf[i] * n;
   let remaining = 1;
   const inverseAlpha = 1 / alpha;
   while (remaining > STICK_REMAINDER) {
@@ -315,22 +385,55 @@ interface RangeScratch extends Scratch {
   readonly modes: Uint8Array;
   /** ĉ_i. */
   readonly rowTotals: Float64Array;
+  /** Each row's grid index of α_i in the current draw. */
+  readonly alphaIndex: Int32Array;
+  readonly profileConstants: ProfileConstants;
+  /** The drawn matrix's storage, reused draw after draw. */
+  readonly rows: RowBuilder;
 }
 
 function rangeScratch(plan: DrawPlan): RangeScratch {
   const n = plan.n;
   let maxRow = 0;
   for (let i = 0; i < n; i++) maxRow = Math.max(maxRow, plan.rowPtr[i + 1] - plan.rowPtr[i]);
+  const { grid, effective, rowPtr } = plan;
+  let positiveGrid = grid.length > 0;
+  for (let g = 0; g < grid.length; g++) if (!(grid[g] > 0)) positiveGrid = false;
+  // A row goes linear when its largest shape (observed cells or the smallest α it can draw) is
+  // at least LINEAR_MIN_SHAPE: then its total cannot underflow (gamma-sampler's module header).
+  let smallestAlpha = Number.POSITIVE_INFINITY;
+  for (let g = 0; g < grid.length; g++) smallestAlpha = Math.min(smallestAlpha, grid[g]);
+  const linear = new Uint8Array(n);
+  for (let i = 0; i < n; i++) {
+    let largest = smallestAlpha;
+    for (let k = rowPtr[i]; k < rowPtr[i + 1]; k++) largest = Math.max(largest, effective[k]);
+    linear[i] = largest >= LINEAR_MIN_SHAPE ? 1 : 0;
+  }
+  const hubShapes = new Float64Array(n).fill(1); // 1 where a column is never a hub (unused)
+  if (plan.hubs) {
+    for (let j = 0; j < n; j++) {
+      if (plan.hubs.probability[j] > 0) hubShapes[j] = plan.hubs.shape[j];
+    }
+  }
   return {
     logs: new Float64Array(Math.max(1, maxRow)),
     atoms: new Int32Array(n),
     atomLogs: new Float64Array(n),
+    observed: gammaConstants(effective),
+    strengths: positiveGrid ? gammaConstants(grid) : null,
+    linear,
     m: new Float64Array(plan.concentration.length),
     mCumulative: new Float64Array(plan.concentration.length),
     restProfile: new Float64Array(plan.concentration.length),
     alphas: new Float64Array(n),
     modes: new Uint8Array(n),
     rowTotals: rowTotalsOf(plan),
+    alphaIndex: new Int32Array(n),
+    profileConstants: {
+      concentration: gammaConstants(plan.concentration),
+      hub: gammaConstants(hubShapes),
+    },
+    rows: new RowBuilder(n, effective.length + 8 * n),
   };
 }
 
@@ -413,12 +516,13 @@ function drawPooled(
 function drawMatrixInto(plan: DrawPlan, k: number, scratch: RangeScratch): AttentionRows {
   const { n, grid, cumulative, concentration } = plan;
   const G = grid.length;
-  const { m, mCumulative, alphas, modes } = scratch;
+  const { m, mCumulative, alphas, modes, alphaIndex } = scratch;
   const rng = createDrawRng(plan.seed, k);
   const gamma = createGammaSampler(rng);
   const next = () => rng.next();
-  drawProfiles(concentration, n, plan.hubs, gamma, next, m, mCumulative);
-  const rows = new RowBuilder(n, plan.effective.length + 8 * n);
+  drawProfiles(concentration, n, plan.hubs, scratch.profileConstants, gamma, next, m, mCumulative);
+  const rows = scratch.rows;
+  rows.reset();
   const exact = plan.forceExact === true || posteriorMethod(n) === "exact";
   const stickCost = Math.log(1 / STICK_REMAINDER);
   let restProfile = m;
@@ -427,24 +531,24 @@ function drawMatrixInto(plan: DrawPlan, k: number, scratch: RangeScratch): Atten
     for (let i = 0; i < n; i++) {
       const g = G === 1 ? 0 : searchCumulative(cumulative, i * G, (i + 1) * G, rng.next());
       alphas[i] = grid[g];
+      alphaIndex[i] = g;
       modes[i] = alphas[i] * stickCost >= n - 1 ? ROW_POOLED : ROW_STICKS;
     }
     drawPooled(plan, scratch, gamma, concentration.length / n);
     restProfile = scratch.restProfile;
   }
   for (let i = 0; i < n; i++) {
-    let alpha: number;
+    let g: number;
     let mode: RowMode;
     if (exact) {
-      const g = G === 1 ? 0 : searchCumulative(cumulative, i * G, (i + 1) * G, rng.next());
-      alpha = grid[g];
+      g = G === 1 ? 0 : searchCumulative(cumulative, i * G, (i + 1) * G, rng.next());
       mode = ROW_CELLS;
     } else {
-      alpha = alphas[i];
+      g = alphaIndex[i];
       mode = modes[i] as RowMode;
     }
     if (n > 1) {
-      drawRow(plan, i, alpha, m, mCumulative, restProfile, mode, gamma, next, rows, scratch);
+      drawRow(plan, i, g, m, mCumulative, restProfile, mode, gamma, next, rows, scratch);
     }
     rows.rowPtr[i + 1] = rows.size;
   }

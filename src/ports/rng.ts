@@ -16,6 +16,12 @@ export interface Rng {
   next(): number;
   /** A uniform double in [0, 1) with 32 random bits: half the cost, for rejection samplers. */
   next32(): number;
+  /**
+   * The xoshiro128** state (four int32) that `next` and `next32` advance, for kernels that run
+   * the same generator inline (gamma-sampler's `fillGammaAt`): load it, step it with the same
+   * arithmetic as `xoshiro128` below, store it back. Absent for other generators.
+   */
+  readonly state?: Int32Array;
 }
 
 function splitmix32(state: number): () => number {
@@ -74,12 +80,15 @@ export function createDrawRng(seed: number, k: number): Rng {
 }
 
 function xoshiro128(s0: number, s1: number, s2: number, s3: number): Rng {
-  let a = s0 | 0;
-  let b = s1 | 0;
-  let c = s2 | 0;
-  let d = s3 | 0;
-  if ((a | b | c | d) === 0) a = 1;
+  // The state lives in an Int32Array so that inline kernels can share it (Rng.state); V8 keeps
+  // its elements unboxed as the closure variables were.
+  const state = Int32Array.of(s0 | 0, s1 | 0, s2 | 0, s3 | 0);
+  if ((state[0] | state[1] | state[2] | state[3]) === 0) state[0] = 1;
   const next32 = (): number => {
+    let a = state[0];
+    let b = state[1];
+    let c = state[2];
+    let d = state[3];
     const result = Math.imul(rotl(Math.imul(b, 5), 7), 9);
     const t = b << 9;
     c ^= a;
@@ -88,9 +97,14 @@ function xoshiro128(s0: number, s1: number, s2: number, s3: number): Rng {
     a ^= d;
     c ^= t;
     d = rotl(d, 11);
+    state[0] = a;
+    state[1] = b;
+    state[2] = c;
+    state[3] = d;
     return result >>> 0;
   };
   return {
+    state,
     next(): number {
       const hi = next32() >>> 5; // 27 bits
       const lo = next32() >>> 6; // 26 bits

@@ -33,6 +33,22 @@ export interface NoteComposition {
   readonly onPosted?: () => Promise<void>;
 }
 
+/**
+ * A post that falls due at a known time outside the digest schedule (a format trial's week switch
+ * or its result), claimed under (channel, "trial", `period`) so one replica posts it once.
+ */
+export interface DuePost {
+  /** Unique per post, e.g. "trial 2026-11-02T09:00Z week 2". */
+  readonly period: string;
+  readonly dueAt: number;
+  /** From this time the post is stale and recorded as missed ("too late"); null = never. */
+  readonly staleAt: number | null;
+  /** Composed only once the claim is held; null = nothing to post. */
+  readonly compose: () => Promise<OutgoingMessage | null>;
+  /** Runs once the post is delivered and its claim completed. */
+  readonly onPosted?: () => Promise<void>;
+}
+
 export interface SchedulerDeps {
   readonly store: Store;
   readonly platform: ChatPlatform;
@@ -45,6 +61,8 @@ export interface SchedulerDeps {
   readonly composeDigest: (channel: string, slotAt: number) => Promise<OutgoingMessage | null>;
   /** Runs the analysis and the note policy; null = no note due. */
   readonly composeNote: (channel: string, now: number) => Promise<NoteComposition | null>;
+  /** Posts due now for the channel outside the digest schedule (format trials); default none. */
+  readonly duePosts?: (channel: string, now: number) => Promise<readonly DuePost[]>;
   /** Delivers a note to the channel's facilitators privately. */
   readonly sendToFacilitators?: (channel: string, message: OutgoingMessage) => Promise<void>;
   /**

@@ -11,7 +11,10 @@
  * its lease is logged as a miss ("outcome unknown") and never posted again, because the first post
  * may have reached the channel (the platforms offer no idempotency key). A slot found 24 hours or
  * more late is recorded as missed, not posted. Notes are evaluated once per UTC hour and claimed
- * per hour the same way. Time comes from the injected clock; only `start` uses real timers.
+ * per hour the same way. Posts due at a time of their own (a format trial's week switches and its
+ * result, `duePosts`) are claimed under kind "trial" the same two-phase way, so each is posted
+ * once across replicas and restarts. Time comes from the injected clock; only `start` uses real
+ * timers.
  */
 import { createHash } from "node:crypto";
 import type { ChannelSettings } from "../domain/channel-settings.js";
@@ -22,6 +25,7 @@ import { digestSlotsBetween } from "./digest-slots.js";
 import {
   DEFAULT_LEASE_MS,
   DEFAULT_LOOKBACK_MS,
+  type DuePost,
   FACILITATORS_DELIVERY,
   LATE_LIMIT_MS,
   NOTHING_POSTED,
@@ -70,6 +74,7 @@ export class Scheduler {
         continue;
       }
       await this.runDigests(channel, settings, at, report);
+      await this.runDuePosts(channel, at, report);
       if (this.deps.clock.now() - this.lastSweep >= this.leaseMs / 4) await this.takeOver(report);
       await this.runNote(channel, settings, at, report);
     }
@@ -199,6 +204,42 @@ export class Scheduler {
           await this.deliver(report, ref, slotAt, "channel", () =>
             this.deps.composeDigest(channel, slotAt),
           );
+        } else {
+          this.skip(report, ref, "claimed-elsewhere");
+        }
+      } catch (error) {
+        this.fail(report, ref, error);
+      }
+    }
+  }
+
+  /** A trial's due posts: each claimed once, stale ones recorded as missed. */
+  private async runDuePosts(channel: string, at: number, report: TickReport): Promise<void> {
+    if (this.deps.duePosts === undefined) return;
+    let posts: readonly DuePost[];
+    try {
+      posts = await this.deps.duePosts(channel, at);
+    } catch (error) {
+      this.fail(report, { channel, kind: "trial", period: null }, error);
+      return;
+    }
+    for (const post of posts) {
+      const ref: SlotRef = { channel, kind: "trial", period: post.period };
+      try {
+        const held = await this.deps.store.getClaim(ref);
+        if (held !== null && !(held.status === "claimed" && held.leaseUntil < at)) continue;
+        if (post.staleAt !== null && at >= post.staleAt) {
+          const recorded = await this.deps.store.recordMiss({
+            ...ref,
+            claimedBy: this.deps.replicaId,
+            now: this.deps.clock.now(),
+            leaseMs: 0,
+            reason: "too late",
+          });
+          if (recorded) this.missed(report, { ...ref, claimedBy: this.deps.replicaId }, "too-late");
+        } else if (await this.claim(ref, this.leaseMs, null)) {
+          const posted = await this.deliver(report, ref, post.dueAt, "channel", post.compose);
+          if (posted) await post.onPosted?.();
         } else {
           this.skip(report, ref, "claimed-elsewhere");
         }

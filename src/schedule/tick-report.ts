@@ -4,17 +4,21 @@
  * recorded as missed, and failures. Plain data, no message text.
  */
 
-export type PostKind = "digest" | "note";
+/** "trial": a format trial's week switch or its result (DESIGN.md §1 format trial). */
+export type PostKind = "digest" | "note" | "trial";
 
 export interface SlotRef {
   readonly channel: string;
   readonly kind: PostKind;
-  /** The claim period, e.g. "2026-11-02T09:00[Europe/Berlin]" or "2026-11-02T08:00Z". */
+  /**
+   * The claim period, e.g. "2026-11-02T09:00[Europe/Berlin]" (digest), "2026-11-02T08:00Z" (note)
+   * or "trial 2026-11-02T09:00Z week 2" (a trial's post).
+   */
   readonly period: string;
 }
 
 export interface PostedEntry extends SlotRef {
-  /** The slot's instant (digest) or the evaluation time (note), epoch ms. */
+  /** The slot's instant (digest), the evaluation time (note) or the post's due time (trial). */
   readonly slotAt: number;
   readonly audience: "channel" | "facilitators";
   readonly messageId: string;

@@ -6,6 +6,7 @@
  * from memory), with the same self-weight 0.5 the model uses (it changes no shares).
  */
 import { describe, expect, it } from "vitest";
+import { analyzeSnapshot } from "../../src/analysis/analyze-snapshot.js";
 import { compareFormats } from "../../src/analysis/compare-formats.js";
 import {
   planTrial,
@@ -189,6 +190,40 @@ describe("trial plan (alternating treatments: Barlow & Hersen 1984, Single Case 
     ]);
     expect(report.formats.find((f) => f.format === "A")?.balance).toBeNull();
     expect(report.pair).toBeNull();
+  });
+});
+
+describe("a format's largest share", () => {
+  it("is the point-largest member's share with that member's interval, covering the truth of an even channel", () => {
+    // Every member spreads attention evenly over the others: the true stationary vector is 1/n
+    // for everyone (a doubly stochastic matrix; DeGroot 1974, from memory), so the true largest
+    // share is 1/15. The largest entry of each draw is biased upward here (some member is high in
+    // every draw by chance); the point-largest member's own draws are not.
+    const even = leaderMatrix(1 / (N - 1));
+    const events = [
+      ...channelEvents(createSeededRng(11), [even, even], 300),
+      { type: "format", at: T0, channel: "c1", format: "A" } as ChatEvent,
+    ];
+    const until = T0 + 2 * WEEK_MS;
+    const snapshot = snapshotOf(events);
+    const settings = { ...SETTINGS, seed: 5 };
+    const report = compareFormats(snapshot, settings, { until });
+    const top = report.formats[0].topShare;
+    if (top === null) throw new Error("no figures");
+    // The same window as a check (no decay, window = the period): the same member, the same range.
+    const check = analyzeSnapshot(
+      snapshot,
+      { ...settings, halfLifeDays: 0, windowDays: 14 },
+      { until },
+    );
+    console.log(`even channel: largest share ${top.value} (${top.low}–${top.high})`);
+    expect(top.value).toBeCloseTo(check.top?.share ?? Number.NaN, 6);
+    expect(top.low).toBeCloseTo(check.top?.low ?? Number.NaN, 6);
+    expect(top.high).toBeCloseTo(check.top?.high ?? Number.NaN, 6);
+    expect(top.low).toBeLessThanOrEqual(top.value);
+    expect(top.high).toBeGreaterThanOrEqual(top.value);
+    expect(top.low).toBeLessThanOrEqual(1 / N);
+    expect(top.high).toBeGreaterThanOrEqual(1 / N);
   });
 });
 

@@ -33,7 +33,9 @@ function residual(rows: readonly TrueRow[], s: Float64Array): number {
 
 describe("true stationary vector", () => {
   it("Land of Oz chain: (2/5, 1/5, 2/5)", () => {
-    // Grinstead & Snell, Introduction to Probability (1997), ch. 11, Example 11.1 (R, N, S).
+    // Grinstead & Snell, Introduction to Probability (AMS, 2nd rev. ed. 1997): the chain is defined
+    // in Example 11.1 (R, N, S); its fixed vector (2/5, 1/5, 2/5) is given in §11.3, "Ergodic
+    // Markov Chains" (example number there from memory).
     const oz = rowsFromDense([
       [1 / 2, 1 / 4, 1 / 4],
       [1 / 2, 0, 1 / 2],

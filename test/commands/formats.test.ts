@@ -5,7 +5,8 @@
  * 2nd ed., Pergamon; from memory): formats take turns week by week.
  */
 import { describe, expect, it } from "vitest";
-import { digestFormatLine, takeTrialVerdict } from "../../src/commands/format-commands.js";
+import { digestFormatLine } from "../../src/commands/format-commands.js";
+import { dueTrialPosts } from "../../src/commands/trial-posts.js";
 import { CHANNEL, DAY, mentions, runner, T0 } from "./channel-fixture.js";
 
 const MEMBERS = ["UANA", "UBO", "UCY", "UDEE", "UELI", "UFAY", "UGUS"];
@@ -70,7 +71,7 @@ describe("format commands", () => {
     expect(reserved.message.text).toMatch(/two formats and a number of weeks/);
   });
 
-  it("plans a trial, switches at week boundaries and gives its verdict once at the end", async () => {
+  it("plans a trial, switches at week boundaries, has each week's switch and then its result due", async () => {
     const r = await runner({ now: T0 });
     for (const m of MEMBERS) await r.run(m, "join", { now: T0 });
     const planned = await r.run("UBOSS", "format trial coordinator-led rotating-hosts weeks 4", {
@@ -90,11 +91,19 @@ describe("format commands", () => {
         `this week ${w % 2 === 0 ? "coordinator-led" : "rotating-hosts"}`,
       );
     }
-    expect(await takeTrialVerdict(r.store, CHANNEL, T0 + 27 * DAY)).toBeNull(); // not over yet
-    const verdict = await takeTrialVerdict(r.store, CHANNEL, T0 + 28 * DAY + 2);
-    const text = (verdict ?? []).map((b) => ("text" in b ? b.text : "")).join("\n");
+    const lastWeek = await dueTrialPosts(r.store, CHANNEL, T0 + 27 * DAY);
+    expect(lastWeek.map((p) => p.period)).toEqual(["trial 2026-11-02T09:00Z week 4"]);
+    const week4 = await lastWeek[0].compose();
+    expect(week4?.text).toContain("Format trial · week 4 of 4: rotating-hosts");
+    expect(week4?.text).toContain("the bot posts the result on 2026-11-30");
+    const due = await dueTrialPosts(r.store, CHANNEL, T0 + 28 * DAY + 2);
+    expect(due.map((p) => [p.period, p.staleAt])).toEqual([
+      ["trial 2026-11-02T09:00Z result", null],
+    ]);
+    const text = (await due[0].compose())?.text ?? "";
     expect(text).toContain("Format trial result: coordinator-led against rotating-hosts");
     expect(text).toMatch(/"rotating-hosts" spread influence more evenly/);
-    expect(await takeTrialVerdict(r.store, CHANNEL, T0 + 29 * DAY)).toBeNull(); // posted once
+    await due[0].onPosted?.();
+    expect(await dueTrialPosts(r.store, CHANNEL, T0 + 29 * DAY)).toEqual([]); // posted once
   });
 });

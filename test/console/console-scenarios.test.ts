@@ -70,11 +70,29 @@ describe("console scenarios", () => {
     const h = harness;
     await h.type("bo> /influence set window 14");
     expect(h.platform.posts.at(-1)?.text).toMatch(/facilitator/i);
+    // The window's allowed range is 7–90 days (SETTING_LIMITS, DEVELOPERS.md settings): the
+    // refusal names the value given, the range, an example, and that nothing changed; it is
+    // private to the facilitator who asked. Both edges are checked: 6 and 91 refused, 7 and 90 kept.
+    const posted = h.platform.posts.length;
     await h.type("ana> /influence set window 3");
-    expect(h.platform.posts.at(-1)?.text).toContain("7");
-    expect(h.platform.posts.at(-1)?.text).toContain("90");
+    expect(h.platform.posts).toHaveLength(posted + 1);
+    const refusal = h.platform.posts.at(-1);
+    expect(refusal?.privateTo).toBe("ana");
+    expect(refusal?.text).toMatch(/^window cannot be "3"/i);
+    expect(refusal?.text).toContain("a whole number of days from 7 to 90");
+    expect(refusal?.text).toContain("Nothing was changed.");
     await h.type("ana> /influence settings");
     expect(h.platform.posts.at(-1)?.text).toMatch(/28 days/);
+    for (const [given, kept] of [
+      ["6", "28"],
+      ["91", "28"],
+      ["7", "7"],
+      ["90", "90"],
+    ]) {
+      await h.type(`ana> /influence set window ${given}`, "ana> /influence settings");
+      expect(h.platform.posts.at(-1)?.text).toMatch(new RegExp(`\\b${kept} days`));
+      if (kept === "28") await h.type("ana> /influence set window 28");
+    }
     await h.type("ana> /influence set window 14", "ana> /influence settings");
     expect(h.platform.posts.at(-1)?.text).toMatch(/14 days/);
   });

@@ -143,7 +143,8 @@ describe("ln Γ and the Dirichlet–multinomial likelihood", () => {
 
 describe("the prior vanishes where it should (DESIGN.md §4.4)", () => {
   it("Land of Oz (Grinstead & Snell 1997, Example 11.1) as counts: the prior vanishes", () => {
-    // T: R = (½, ¼, ¼), N = (½, 0, ½), S = (¼, ¼, ½), s = (0.4, 0.2, 0.4). Counts carry no
+    // T: R = (½, ¼, ¼), N = (½, 0, ½), S = (¼, ¼, ½) (Example 11.1), s = (0.4, 0.2, 0.4) (given
+    // in §11.3, "Ergodic Markov Chains"). Counts carry no
     // diagonal, so the model sees the off-diagonal chain Q (rows of T without T_ii, renormalised),
     // whose stationary vector is ∝ s_i(1 − T_ii) = (0.2, 0.2, 0.2) (derived from T = D + (I−D)Q):
     // uniform. With 10⁴ signals per row the learnt prior must leave it there.

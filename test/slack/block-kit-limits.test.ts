@@ -53,6 +53,19 @@ describe("Block Kit limits for every message the bot sends", async () => {
 
   it("covers every kind of message", () => {
     expect(messages.length).toBeGreaterThanOrEqual(20);
+    // Every meeting-format message (issue 16) is in the catalogue.
+    expect(messages.map((m) => m.name)).toEqual(
+      expect.arrayContaining([
+        "format set",
+        "format end",
+        "format list",
+        "compare formats",
+        "format trial (plan)",
+        "trial week switch",
+        "trial result",
+        "digest with format line",
+      ]),
+    );
   });
 
   for (const { name, message } of messages) {
@@ -69,6 +82,31 @@ describe("Block Kit limits for every message the bot sends", async () => {
     const blocks = renderBlockKit(many);
     expect(blocks).toHaveLength(LIMITS.blocks);
     expect(JSON.stringify(blocks.at(-1))).toContain("Shortened");
+  });
+
+  it("oversized content of every block kind is cut to the limits, not posted past them", () => {
+    // No real message comes near 3,000 characters, so the clipping is fed content that does.
+    const long = "w".repeat(5000);
+    const blocks = renderBlockKit([
+      { kind: "heading", text: long },
+      { kind: "note", text: long },
+      {
+        kind: "figures",
+        rows: Array.from({ length: 25 }, (_, k) => ({ label: `row ${k}`, value: long })),
+      },
+      { kind: "cautions", text: long },
+      { kind: "footer", text: long },
+    ]);
+    expect(problems(blocks, "fallback")).toEqual([]);
+    // The cut is at the limit, not far below it (a message is shortened, not emptied).
+    const sectionTexts = blocks.flatMap((b) =>
+      b.type === "section" && b.text ? [b.text.text] : [],
+    );
+    expect(sectionTexts.map((t) => t.length)).toEqual([LIMITS.sectionText, LIMITS.sectionText]);
+    const fieldSections = blocks.filter((b) => b.type === "section" && b.fields);
+    expect(fieldSections.map((b) => (b.type === "section" ? b.fields?.length : 0))).toEqual([
+      10, 10, 5,
+    ]);
   });
 
   it("the checker itself flags a block past a limit (it can fail)", () => {

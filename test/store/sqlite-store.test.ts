@@ -1,8 +1,9 @@
-import { mkdtempSync, rmSync, statSync, writeFileSync } from "node:fs";
+import { mkdtempSync, readFileSync, rmSync, statSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import Database from "better-sqlite3";
 import { afterAll, describe, expect, it } from "vitest";
+import type { ChatEvent } from "../../src/domain/events.js";
 import { leave } from "../../src/ingest/erase.js";
 import { type Delivery, ingest, ingestBatch } from "../../src/ingest/ingest.js";
 import { LATEST_SCHEMA_VERSION, pendingMigrations } from "../../src/store/migrations.js";
@@ -161,6 +162,55 @@ describe("SQLite store", () => {
     ).toEqual([]);
     expect(dump).not.toContain("SECRET_COUNTED");
     expect(dump.split("VISIBLE_NAMED").length - 1).toBe(1); // only in named_member
+  });
+
+  it("text handed to the store anyway is not kept: a message event carrying text, blocks and files", async () => {
+    // The check above proves there is no text column; this one feeds text in, as an adapter bug
+    // would (extra fields on the event object), and greps every row of every table for it.
+    const path = join(dir, "text-fed.db");
+    const store = await openSqliteStore(path, { idKey: TEST_KEY });
+    const at = Date.UTC(2026, 10, 2);
+    const SENTINEL = "SENTINEL_TEXT_7f3a";
+    for (const [k, member] of ["A1", "B2"].entries()) {
+      await ingest(store, { type: "consent", at, channel: "c1", member, level: "named" }, `k${k}`);
+    }
+    const leaky = {
+      type: "message",
+      at: at + 1,
+      channel: "c1",
+      id: "m1",
+      author: "A1",
+      mentions: ["B2"],
+      text: `${SENTINEL} the message body`,
+      blocks: [{ type: "rich_text", elements: [{ type: "text", text: SENTINEL }] }],
+      files: [{ name: `${SENTINEL}.pdf` }],
+    } as unknown as ChatEvent;
+    await ingest(store, leaky, "k-msg");
+    const edit = {
+      type: "edit",
+      at: at + 2,
+      channel: "c1",
+      id: "m1",
+      mentions: ["B2"],
+      text: SENTINEL,
+    };
+    await ingest(store, edit as unknown as ChatEvent, "k-edit");
+    const snapshot = await store.loadSnapshot("c1");
+    expect(JSON.stringify(snapshot)).not.toContain(SENTINEL);
+    await store.close();
+    const raw = new Database(path, { readonly: true });
+    const tables = raw.prepare("SELECT name FROM sqlite_master WHERE type = 'table'").all() as {
+      name: string;
+    }[];
+    const dump = tables
+      .map((t) => JSON.stringify(raw.prepare(`SELECT * FROM "${t.name}"`).all()))
+      .join("\n");
+    raw.close();
+    // The message itself was stored (its mention is in the ledger), so the check is not empty.
+    expect(snapshot.lastEventAt).toBe(at + 2);
+    expect(dump).not.toContain(SENTINEL);
+    const bytes = readFileSync(path);
+    expect(bytes.includes(Buffer.from(SENTINEL))).toBe(false);
   });
 
   it("leave removes every row naming a member with 1,000 ledger rows", async () => {

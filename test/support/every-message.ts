@@ -1,7 +1,8 @@
 /**
  * Every kind of message the bot can send, built the way the bot builds them: the chat commands
  * through `handleCommand` on an invented busy channel (and on a channel with too little data),
- * the weekly digest and the balance note from the same channel's report. The platform checks
+ * the weekly digest and the balance note from the same channel's report, and every meeting-format
+ * message (format-messages.ts). The platform checks
  * (Block Kit limits, Adaptive Card parsing) run over this catalogue, so a new message kind only
  * needs adding here.
  */
@@ -11,6 +12,7 @@ import type { OutgoingMessage } from "../../src/ports/chat-platform.js";
 import { digestMessage } from "../../src/report/digest-blocks.js";
 import { noteMessage } from "../../src/report/note-blocks.js";
 import { busyChannel, CHANNEL, NOW, runner, T0 } from "../commands/channel-fixture.js";
+import { formatMessages } from "./format-messages.js";
 
 export interface NamedMessage {
   readonly name: string;
@@ -74,5 +76,6 @@ export async function everyMessage(): Promise<NamedMessage[]> {
   out.push({ name: "join (consent notice)", message: (await quiet.run("UBO", "join")).message });
   await r.store.close();
   await quiet.store.close();
+  out.push(...(await formatMessages()));
   return out;
 }
