@@ -11,6 +11,8 @@ export interface CliIo {
   readonly cwd: string;
   /** Monotonic ms for progress lines; without it (tests) no progress line is written. */
   readonly now?: () => number;
+  /** Wall-clock epoch ms (ingest's delivery stamps, purge's default time); default Date.now. */
+  readonly clock?: () => number;
   /** Standard input, for the console; absent in tests that do not type. */
   readonly stdin?: NodeJS.ReadableStream & { readonly isTTY?: boolean };
 }

@@ -54,7 +54,10 @@ export async function runIngest(argv: readonly string[], io: CliIo): Promise<num
   const store = await openStore(url, storeOptions(io));
   try {
     const deliveries = events.map((event) => ({ event, deliveryKey: logDeliveryKey(event) }));
-    const totals = await ingestBatch(store, deliveries, { batchSize: 500 });
+    const totals = await ingestBatch(store, deliveries, {
+      batchSize: 500,
+      receivedAt: (io.clock ?? Date.now)(),
+    });
     const bad = skipped.length > 0 ? `, ${skipped.length} bad lines skipped` : "";
     const rejected = Object.entries(totals.rejected)
       .sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0))
@@ -110,7 +113,8 @@ export async function runPurge(argv: readonly string[], io: CliIo): Promise<numb
     DEFAULT_RETENTION_DAYS,
   );
   const dedupeDays = days(parsed.values["dedupe-days"], "--dedupe-days", DEFAULT_DEDUPE_DAYS);
-  const now = typeof parsed.values.now === "string" ? parseNow(parsed.values.now) : Date.now();
+  const now =
+    typeof parsed.values.now === "string" ? parseNow(parsed.values.now) : (io.clock ?? Date.now)();
   const url = databaseUrl(parsed.values.db, io);
   const store: Store = await openStore(url, storeOptions(io));
   try {

@@ -13,11 +13,20 @@ import { randomDeliveries } from "./random-events.js";
 const dir = mkdtempSync(join(tmpdir(), "plumbline-cli-"));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
+/** The wall clock the commands see (ingest stamps its delivery keys with it): fixed, not today. */
+const CLOCK = Date.UTC(2026, 11, 1, 12, 0, 0);
+
 function io(env: Record<string, string | undefined> = {}) {
   const out: string[] = [];
   const err: string[] = [];
   return {
-    io: { stdout: (s: string) => out.push(s), stderr: (s: string) => err.push(s), env, cwd: dir },
+    io: {
+      stdout: (s: string) => out.push(s),
+      stderr: (s: string) => err.push(s),
+      env,
+      cwd: dir,
+      clock: () => CLOCK,
+    },
     out,
     err,
   };
@@ -68,9 +77,9 @@ describe("plumbline ingest / migrate / purge", () => {
     const log = writeLog("maint.jsonl", 300);
     expect(await main(["ingest", log], io(env).io)).toBe(0);
     // The stream starts 2026-11-02; 200 days later every message is past 91 days. Delivery keys
-    // carry the real time they were ingested, so the purge time is also at least a day after that
-    // (a fixed date alone would stop purging them once the calendar passes it).
-    const purgeAt = new Date(Math.max(Date.parse("2027-05-21T00:00:00Z"), Date.now() + 86_400_000));
+    // carry the injected clock (2026-12-01), so they are past the 0-day dedupe window too, on any
+    // calendar date the test is run.
+    const purgeAt = new Date("2027-05-21T00:00:00Z");
     const p = io(env);
     expect(await main(["purge", "--now", purgeAt.toISOString(), "--dedupe-days", "0"], p.io)).toBe(
       0,
