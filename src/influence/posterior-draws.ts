@@ -500,7 +500,9 @@ function drawPooled(
     const base = g * n;
     let max = Number.NEGATIVE_INFINITY;
     for (let j = base; j < base + n; j++) {
-      const log = gamma.logGamma(strength * m[j]);
+      // A profile entry that underflowed to 0 in this draw gets no pooled weight (as per cell).
+      const shape = strength * m[j];
+      const log = shape > 0 ? gamma.logGamma(shape) : Number.NEGATIVE_INFINITY;
       restProfile[j] = log;
       if (log > max) max = log;
     }
