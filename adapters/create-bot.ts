@@ -42,8 +42,8 @@ export interface BotOptions {
   readonly replicaId: string;
   /** Signed report-page links (the served page); absent in the console. */
   readonly reportLink?: (channel: string, reader: string) => string;
-  /** Claim lease, look-back and the platform's "certainly not sent" test for the scheduler. */
-  readonly scheduling?: Pick<SchedulerDeps, "leaseMs" | "lookbackMs" | "notSent">;
+  /** Claim lease and look-back for the scheduler. */
+  readonly scheduling?: Pick<SchedulerDeps, "leaseMs" | "lookbackMs">;
   /** Where analyses run (serve: the queue over the worker pool); default the calling thread. */
   readonly analysis?: AnalysisRunner;
 }

@@ -2,8 +2,8 @@
  * @module demo-replay
  * `npm run demo`: the invented scenario replayed through the whole bot — ingestion into a real
  * SQLite store, the scheduler on a simulated clock (digests every Monday 09:00 UTC, notes checked
- * hourly), a few member commands, and a facilitator's compare of the two meeting formats. Prints
- * every post as the channel would see it.
+ * hourly), a few member commands, and a facilitator's compare of the two meeting formats (by dates,
+ * then by the tagged format periods). Prints every post as the channel would see it.
  */
 import { mkdtempSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
@@ -105,6 +105,8 @@ export async function runDemoReplay(print: (text: string) => void): Promise<numb
     await afterWeek(DEMO_WEEKS - 1, ": did the new format help?");
     const { a, b } = demoRanges();
     await as(`${DEMO_FACILITATOR}> /influence compare ${a.label} ${b.label}`);
+    // The same question by the tagged format periods, each read on its own.
+    await as(`${DEMO_FACILITATOR}> /influence compare formats`);
     print(
       `\nBefore you use figures like these:\n${CAUTIONS_FULL.map((c) => `  - ${c}`).join("\n")}\n`,
     );

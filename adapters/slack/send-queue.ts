@@ -5,8 +5,12 @@
  * `minIntervalMs` apart. A 429 means Slack did not take the call, so the send waits the
  * `Retry-After` seconds and is tried again (a few times at most). Any other failure, including a
  * network error or a 5xx after the request went out, is rethrown untouched: the post may have
- * arrived, and the platform has no idempotency key, so it is never retried here.
+ * arrived, and the platform has no idempotency key, so it is never retried here. A send given
+ * `startWithinMs` that would have to wait longer than that is not made: it fails at once with
+ * `SendNotStartedError` (the scheduler then opens its claim again instead of posting after its
+ * lease ended).
  */
+import { SendNotStartedError } from "../../src/ports/chat-platform.js";
 import type { Logger } from "../../src/ports/logger.js";
 
 export interface SendQueueOptions {
@@ -34,13 +38,23 @@ export class SendQueue {
     this.maxWaits = options.maxRateLimitWaits ?? 3;
   }
 
-  /** Runs `send` in the channel's turn; resolves or rejects with its outcome. */
-  run<T>(channel: string, send: () => Promise<T>): Promise<T> {
+  /**
+   * Runs `send` in the channel's turn; resolves or rejects with its outcome. With
+   * `startWithinMs`, a send that cannot start within that time of this call is not made.
+   */
+  run<T>(
+    channel: string,
+    send: () => Promise<T>,
+    options: { startWithinMs?: number } = {},
+  ): Promise<T> {
     const previous = this.tails.get(channel) ?? Promise.resolve();
-    const task = previous.then(
-      () => this.attempt(channel, send),
-      () => this.attempt(channel, send),
-    );
+    const calledAt = this.options.now();
+    const deadline =
+      options.startWithinMs === undefined
+        ? Number.POSITIVE_INFINITY
+        : calledAt + options.startWithinMs;
+    const go = () => this.attempt(channel, send, calledAt, deadline);
+    const task = previous.then(go, go);
     this.tails.set(channel, task);
     const forget = () => {
       if (this.tails.get(channel) === task) this.tails.delete(channel);
@@ -49,9 +63,16 @@ export class SendQueue {
     return task;
   }
 
-  private async attempt<T>(channel: string, send: () => Promise<T>): Promise<T> {
+  private async attempt<T>(
+    channel: string,
+    send: () => Promise<T>,
+    calledAt: number,
+    deadline: number,
+  ): Promise<T> {
     for (let waits = 0; ; waits++) {
-      const wait = (this.nextAt.get(channel) ?? 0) - this.options.now();
+      const now = this.options.now();
+      const wait = (this.nextAt.get(channel) ?? 0) - now;
+      if (now + Math.max(0, wait) > deadline) throw new SendNotStartedError(now - calledAt);
       if (wait > 0) await this.options.sleep(wait);
       try {
         return await send();

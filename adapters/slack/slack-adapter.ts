@@ -146,6 +146,8 @@ export async function createSlackAdapter(options: SlackAdapterOptions): Promise<
     client.filesUploadV2(args as unknown as webApi.FilesUploadV2Arguments);
   const platform = new SlackPlatform({
     chat,
+    history: (args) =>
+      client.conversations.history(args as unknown as webApi.ConversationsHistoryArguments),
     upload,
     queue,
     directory,

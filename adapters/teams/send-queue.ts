@@ -1,8 +1,9 @@
 /**
  * @module send-queue
  * Paces and retries sends per Teams conversation. Sends to one conversation run one at a time and
- * at most `perSecond` in any rolling second (Teams allows 7 sends per second per bot per
- * conversation: learn.microsoft.com/microsoftteams/platform/bots/how-to/rate-limit). A send that
+ * within every one of Microsoft's published per-bot, per-conversation limits for sending a message
+ * (MicrosoftDocs/msteams-docs, msteams-platform/bots/how-to/rate-limit.md, "Per bot per thread
+ * limit": 7 per 1 s, 8 per 2 s, 60 per 30 s, 1,800 per 3,600 s), the 1-second one kept one lower (`perSecond`, default 6). A send that
  * Teams certainly refused — HTTP 429 or 412 (throttled) or a refused connection — is tried again
  * after an exponential delay with jitter ("equal jitter", M. Brooker, 2015, "Exponential Backoff
  * And Jitter", AWS Architecture Blog), never shorter than a `Retry-After` header. A 502 or 504
@@ -13,9 +14,19 @@
  * never wait.
  */
 
+/** Microsoft's per-conversation send limits: [window ms, sends] (see the module comment). */
+export const TEAMS_SEND_LIMITS: readonly (readonly [number, number])[] = Object.freeze([
+  [1000, 7],
+  [2000, 8],
+  [30_000, 60],
+  [3_600_000, 1800],
+]);
+
 export interface SendQueueOptions {
   /** Sends per rolling second per conversation; default 6 (under Teams' 7). */
   readonly perSecond?: number;
+  /** Every rolling window [ms, sends] to keep within; default `TEAMS_SEND_LIMITS`. */
+  readonly limits?: readonly (readonly [number, number])[];
   /** Attempts per send including the first; default 5. */
   readonly maxAttempts?: number;
   readonly baseDelayMs?: number;
@@ -73,14 +84,20 @@ export class SendQueue {
   private readonly recent = new Map<string, number[]>();
   /** Per conversation: no send before this time (ms), after a gateway failure. */
   private readonly coolUntil = new Map<string, number>();
-  private readonly perSecond: number;
+  private limits: readonly (readonly [number, number])[];
+  private readonly longestWindow: number;
   private readonly maxAttempts: number;
   private readonly baseDelayMs: number;
   private readonly maxDelayMs: number;
   private readonly random: () => number;
 
   constructor(private readonly options: SendQueueOptions) {
-    this.perSecond = options.perSecond ?? 6;
+    const perSecond = options.perSecond ?? 6;
+    this.limits = (options.limits ?? TEAMS_SEND_LIMITS).map(([ms, n]) =>
+      ms === 1000 ? ([ms, Math.min(n, perSecond)] as const) : ([ms, n] as const),
+    );
+    if (!this.limits.some(([ms]) => ms === 1000)) this.limits = [[1000, perSecond], ...this.limits];
+    this.longestWindow = Math.max(...this.limits.map(([ms]) => ms));
     this.maxAttempts = options.maxAttempts ?? 5;
     this.baseDelayMs = options.baseDelayMs ?? 1000;
     this.maxDelayMs = options.maxDelayMs ?? 32_000;
@@ -130,16 +147,22 @@ export class SendQueue {
       const now = this.options.now();
       if (until > now) await this.options.sleep(until - now);
     }
-    const window = this.recent.get(key) ?? [];
+    const sent = this.recent.get(key) ?? [];
     for (;;) {
       const now = this.options.now();
-      while (window.length > 0 && window[0] <= now - 1000) window.shift();
-      if (window.length < this.perSecond) {
-        window.push(now);
-        this.recent.set(key, window);
+      while (sent.length > 0 && sent[0] <= now - this.longestWindow) sent.shift();
+      // The earliest time every window has room again: in a window of `ms` holding `n` sends or
+      // more, the send n places back from the newest must have left it.
+      let until = now;
+      for (const [ms, n] of this.limits) {
+        if (sent.length >= n) until = Math.max(until, sent[sent.length - n] + ms);
+      }
+      if (until <= now) {
+        sent.push(now);
+        this.recent.set(key, sent);
         return;
       }
-      await this.options.sleep(window[0] + 1000 - now);
+      await this.options.sleep(until - now);
     }
   }
 }

@@ -8,6 +8,12 @@
  * send-proactive-messages). Every send passes the per-conversation `SendQueue`. A message's
  * chart is rendered here (the injected renderer, by default the card-sized indexed PNG) and goes
  * into the card as an image; when rendering fails the card says so and posts anyway.
+ * `describeFailure` sorts a failed post for the scheduler: 429 or 412 left after the queue's
+ * retries, or a refused connection, is "not sent" (after `Retry-After` when given); 400, 401, 403
+ * and 404 (e.g. the bot was removed from the team) are "refused" with the status and Teams' error
+ * code; a post with no stored conversation reference never started ("refused"); anything else
+ * (502, 504, timeouts) is "unknown". The bot API lists no channel messages, so there is no
+ * `findPost`: an unknown outcome is recorded as missed.
  */
 import {
   type CloudAdapter,
@@ -16,7 +22,7 @@ import {
   TeamsInfo,
   type TurnContext,
 } from "botbuilder";
-import type { ChatPlatform, OutgoingMessage } from "../../src/ports/chat-platform.js";
+import type { ChatPlatform, OutgoingMessage, PostFailure } from "../../src/ports/chat-platform.js";
 import type { Logger } from "../../src/ports/logger.js";
 import type { Store } from "../../src/ports/store.js";
 import type { ChartRenderer } from "../chart-image.js";
@@ -29,7 +35,36 @@ import {
   type StoredReference,
 } from "./conversation-state.js";
 import type { MemberDirectory } from "./member-directory.js";
-import type { SendQueue } from "./send-queue.js";
+import { isRetryable, retryAfterMs, type SendQueue, statusOf } from "./send-queue.js";
+
+/** Answers that say Teams will not take this post as it is. */
+const REFUSED_STATUSES = new Set([400, 401, 403, 404]);
+
+/** Thrown when a channel has no stored conversation reference (nothing was sent). */
+export class NoConversationError extends Error {
+  constructor(channel: string) {
+    super(
+      `no conversation reference for ${channel}: add the plumbline app to that team or chat again`,
+    );
+    this.name = "NoConversationError";
+  }
+}
+
+/** Teams' error code in a failed send's body (`{ error: { code } }`), if any. */
+function teamsErrorCode(error: unknown): string | null {
+  const body = (error as { response?: { parsedBody?: unknown; bodyAsText?: unknown } } | null)
+    ?.response;
+  let parsed: unknown = body?.parsedBody;
+  if (parsed === undefined && typeof body?.bodyAsText === "string") {
+    try {
+      parsed = JSON.parse(body.bodyAsText);
+    } catch {
+      parsed = undefined;
+    }
+  }
+  const code = (parsed as { error?: { code?: unknown } } | undefined)?.error?.code;
+  return typeof code === "string" && /^[A-Za-z0-9_.-]{1,64}$/.test(code) ? code : null;
+}
 
 /** OAuth scope of the Bot Framework channel service (botframework-connector AuthenticationConstants). */
 const CHANNEL_AUDIENCE = "https://api.botframework.com";
@@ -73,6 +108,24 @@ export class TeamsPlatform implements ChatPlatform {
     this.renderChart = options.renderChart ?? cardChartRenderer({ logger: options.logger });
   }
 
+  describeFailure(_channel: string, error: unknown): PostFailure {
+    if (error instanceof NoConversationError) {
+      return { outcome: "refused", reason: "no conversation reference" };
+    }
+    if (isRetryable(error)) {
+      return { outcome: "not-sent", retryAfterMs: retryAfterMs(error, Date.now()) };
+    }
+    const status = statusOf(error);
+    if (status !== null && REFUSED_STATUSES.has(status)) {
+      const code = teamsErrorCode(error);
+      return {
+        outcome: "refused",
+        reason: code === null ? `HTTP ${status}` : `HTTP ${status} ${code}`,
+      };
+    }
+    return { outcome: "unknown" };
+  }
+
   /** Gives the platform the bot's store (conversation references live there). */
   attach(store: Store): void {
     this.store = store;
@@ -81,11 +134,7 @@ export class TeamsPlatform implements ChatPlatform {
   private async state(channel: string): Promise<ConversationState> {
     if (this.store === null) throw new Error("the Teams platform is not started");
     const state = await readConversationState(this.store, channel);
-    if (state === null) {
-      throw new Error(
-        `no conversation reference for ${channel}: add the plumbline app to that team or chat again`,
-      );
-    }
+    if (state === null) throw new NoConversationError(channel);
     return state;
   }
 

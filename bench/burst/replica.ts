@@ -10,8 +10,14 @@
  * line on stdin before its first pass, so the burst is timed from the due minute with every replica
  * already running (as in production), not from process start-up.
  *
+ * Analyses run in the replica's own thread (one core per replica, as `serve` with one worker) with
+ * BURST_SAMPLES posterior draws (the bench's channels' analysis setting: the product default of
+ * 400 draws costs seconds per digest on this machine, far too long for 4 × 1,000 digests).
+ * Channels whose digest failed to compose (an exception, e.g. in the model) are listed in the
+ * status line with their error, so the bench can tell a stuck job from a slow one.
+ *
  * Environment: BURST_SCHEMA, BURST_REPLICA, BURST_LEASE_MS, BURST_SLACK_URL, BURST_BASE (the
- * simulated epoch ms at process start), BURST_ID_KEY, DATABASE_URL.
+ * simulated epoch ms at process start), BURST_ID_KEY, BURST_SAMPLES, DATABASE_URL.
  */
 import { webApi } from "@slack/bolt";
 import pg from "pg";
@@ -20,7 +26,9 @@ import { MemberDirectory } from "../../adapters/slack/member-directory.js";
 import { SendQueue } from "../../adapters/slack/send-queue.js";
 import { retryAfterOf } from "../../adapters/slack/slack-adapter.js";
 import { SlackPlatform } from "../../adapters/slack/slack-platform.js";
+import { inThreadRunner } from "../../src/analysis/analysis-job.js";
 import { DAY_MS } from "../../src/domain/settings.js";
+import type { AnalysisRunner } from "../../src/ports/analysis-runner.js";
 import type { Clock } from "../../src/ports/clock.js";
 import { silentLogger } from "../../src/ports/logger.js";
 import { openStore } from "../../src/store/open-store.js";
@@ -70,6 +78,8 @@ const platform = new SlackPlatform({
       client.chat.postEphemeral(args as unknown as webApi.ChatPostEphemeralArguments),
     update: (args) => client.chat.update(args as unknown as webApi.ChatUpdateArguments),
   },
+  history: (args) =>
+    client.conversations.history(args as unknown as webApi.ConversationsHistoryArguments),
   upload: async () => ({ ok: false }),
   queue,
   directory: new MemberDirectory({
@@ -81,9 +91,17 @@ const platform = new SlackPlatform({
   renderChart: () => null,
 });
 
+const samples = Number(env("BURST_SAMPLES"));
+const analysis: AnalysisRunner = {
+  run: (job, options) =>
+    inThreadRunner.run({ ...job, settings: { ...job.settings, samples } }, options),
+};
+
 let posted = 0;
 let failed = 0;
 let missed = 0;
+/** Channel → error code of its last failed compose or post. */
+const failing = new Map<string, string>();
 const bot = createBot({
   store,
   platform,
@@ -91,10 +109,10 @@ const bot = createBot({
   logger: silentLogger,
   facilitators: [],
   replicaId,
+  analysis,
   scheduling: {
     leaseMs,
     lookbackMs: DAY_MS,
-    notSent: (error) => retryAfterOf(error) !== null,
   },
 });
 
@@ -107,6 +125,7 @@ const status = () =>
       posted,
       failed,
       missed,
+      failing: Object.fromEntries(failing),
     })}\n`,
   );
 process.stdout.write(`${JSON.stringify({ replica: replicaId, ready: true })}\n`);
@@ -125,6 +144,8 @@ while (!stopping) {
   const report = await bot.scheduler.tick();
   posted += report.posted.length;
   failed += report.failed.length;
+  for (const f of report.failed) failing.set(f.channel, f.error);
+  for (const p of report.posted) failing.delete(p.channel);
   missed += report.missed.length;
   await new Promise((resolve) => setTimeout(resolve, 250));
 }

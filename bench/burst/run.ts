@@ -2,20 +2,31 @@
  * @module burst/run
  * `npm run bench:burst`: the Monday-morning burst (issue 17). N channels (default 1,000) of 20–200
  * invented members each, with four weeks of seeded activity (bench/synthetic-channel.ts, three
- * messages per member), all with the default digest (Monday 09:00 UTC), are stored in one
- * PostgreSQL database under a schema of this run's own. Then, for 1, 2 and 3 replica processes and
+ * messages per member; `--patterns` of them ingested, the rest SQL copies), all with the default
+ * digest (Monday 09:00 UTC), are stored in one PostgreSQL database under a schema of this run's
+ * own. Then, for 1, 2 and 3 replica processes and
  * once more with 3 where one is SIGKILLed when half the digests are out, every replica starts at
  * simulated Monday 09:00:30 and the run ends when every channel's claim is final. Slack is faked on
- * loopback with its per-channel pacing (429 + Retry-After). Prints one table: time until the last
- * digest, posts per (channel, period), misses with their reasons, each replica's share of posts,
- * peak RSS, SQL statements per digest, and for the kill run how long the takeover took.
+ * loopback with its per-channel and workspace pacing (429 + Retry-After). Prints one table: time
+ * until the last digest, posts per (channel, period), misses with their reasons, each replica's
+ * share of posts, peak RSS, SQL statements per digest, and for the kill run how long the takeover
+ * took.
  *
  * Options: --channels N (default 1000), --lease S (claim lease in seconds, default 20),
- * --cap S (time cap for all runs together, default 1500), --runs 1,2,3,3k (default all).
+ * --cap S (time cap for all runs together, default 1500), --runs 1,2,3,3k (default all),
+ * --samples K (posterior draws per analysis in the replicas, default 40; the product's 400 costs
+ * seconds per digest here), --workspace-per-minute N (the fake's workspace-wide post cap,
+ * default 300: Slack documents a workspace-wide limit for chat.postMessage without a figure, so
+ * the value is an assumption). A run is done when every channel's claim is final or its digest
+ * keeps failing to compose (listed with the error: a stuck job is reported, not waited for).
+ * --patterns P (default 50): that many channels are seeded through ingestion, the others are
+ * SQL copies of them (channel i has pattern i mod P), since ingesting 1,000 channels takes more
+ * than an hour on this machine.
  * The schema is dropped at the end, also after a failure or Ctrl-C.
  */
-import { type ChildProcess, spawn } from "node:child_process";
+import { type ChildProcess, execFileSync, spawn } from "node:child_process";
 import { randomBytes } from "node:crypto";
+import { availableParallelism, loadavg } from "node:os";
 import { dirname, join } from "node:path";
 import { fileURLToPath } from "node:url";
 import pg from "pg";
@@ -48,8 +59,16 @@ const channelsWanted = Number(option("channels", "1000"));
 const leaseMs = Number(option("lease", "20")) * 1000;
 const capMs = Number(option("cap", "1500")) * 1000;
 const runsWanted = option("runs", "1,2,3,3k").split(",");
-if (!(Number.isInteger(channelsWanted) && channelsWanted > 0 && leaseMs > 0 && capMs > 0)) {
-  throw new Error("--channels, --lease and --cap must be positive numbers");
+const samples = Number(option("samples", "40"));
+const templates = Number(option("patterns", "50"));
+const workspacePerMinute = Number(option("workspace-per-minute", "300"));
+if (
+  !(Number.isInteger(channelsWanted) && channelsWanted > 0 && leaseMs > 0 && capMs > 0) ||
+  !(Number.isInteger(samples) && samples >= 0 && workspacePerMinute > 0)
+) {
+  throw new Error(
+    "--channels, --lease, --cap and --workspace-per-minute must be positive, --samples ≥ 0",
+  );
 }
 const schema = `plumbline_burst_${process.pid}_${randomBytes(3).toString("hex")}`;
 const benchStart = Date.now();
@@ -60,6 +79,8 @@ interface ReplicaStatus {
   maxRssKb: number;
   statements: number;
   posted: number;
+  /** Channel → error of its last failed compose or post. */
+  failing?: Record<string, string>;
 }
 
 interface RunResult {
@@ -78,15 +99,17 @@ interface RunResult {
   rssMb: string;
   statementsPerDigest: number;
   refused: number;
+  stuck: string;
   takeover: string;
 }
 
 async function seed(channels: string[]): Promise<void> {
   const store = await openStore(PG_URL, { idKey: ID_KEY, schema, createSchema: true });
+  const patterns = channels.slice(0, Math.min(templates, channels.length));
+  let events = 0;
   try {
     const rng = createSeededRng(17);
-    let events = 0;
-    for (const [i, channel] of channels.entries()) {
+    for (const [i, channel] of patterns.entries()) {
       const members = 20 + Math.floor(rng.next() * 181);
       const synthetic = syntheticChannel({
         members,
@@ -106,9 +129,58 @@ async function seed(channels: string[]): Promise<void> {
       await writeChannelSettings(store, channel, { ...DEFAULT_CHANNEL_SETTINGS, notes: "off" });
       events += synthetic.events.length;
     }
-    console.log(`seeded ${channels.length} channels, ${events} events, schema ${schema}`);
   } finally {
     await store.close();
+  }
+  await cloneChannels(channels, patterns);
+  console.log(
+    `seeded ${patterns.length} channels through ingestion (${events} events) and copied them to ${channels.length} channels, schema ${schema}`,
+  );
+}
+
+/**
+ * Fills the other channels with copies of the seeded ones' rows (channel i gets pattern
+ * i mod patterns), in SQL: ingesting 1,000 channels one event at a time takes over an hour on
+ * this machine. Member keys do not depend on the channel, so a copy is a channel of its own to
+ * every query; delivery keys get the copy's channel as prefix. Claims are not copied.
+ */
+async function cloneChannels(channels: string[], patterns: string[]): Promise<void> {
+  const copies = channels.slice(patterns.length);
+  if (copies.length === 0) return;
+  const client = new pg.Client({ connectionString: PG_URL });
+  await client.connect();
+  try {
+    await client.query(`SET search_path TO ${schema}`);
+    await client.query("CREATE TEMP TABLE burst_copy (template TEXT NOT NULL, copy TEXT NOT NULL)");
+    await client.query("INSERT INTO burst_copy SELECT * FROM unnest($1::text[], $2::text[])", [
+      copies.map((_, i) => patterns[(patterns.length + i) % patterns.length]),
+      copies,
+    ]);
+    const { rows } = await client.query<{ table_name: string; columns: string[] }>(
+      `SELECT table_name, array_agg(column_name::text ORDER BY ordinal_position) AS columns
+       FROM information_schema.columns WHERE table_schema = $1 GROUP BY table_name`,
+      [schema],
+    );
+    for (const { table_name: table, columns } of rows) {
+      if (table === "post_claim" || !columns.includes("channel")) continue;
+      const kept = columns.filter((c) => c !== "seq");
+      const values = kept.map((c) =>
+        c === "channel"
+          ? "m.copy"
+          : c === "delivery_key"
+            ? "m.copy || '/' || t.delivery_key"
+            : `t.${c}`,
+      );
+      // Ordered by seq where there is one, so copied change logs keep their applied order.
+      const order = columns.includes("seq") ? " ORDER BY m.copy, t.seq" : "";
+      await client.query(
+        `INSERT INTO ${table} (${kept.join(", ")}) SELECT ${values.join(", ")}
+         FROM ${table} t JOIN burst_copy m ON t.channel = m.template${order}`,
+      );
+    }
+    await client.query("ANALYZE");
+  } finally {
+    await client.end();
   }
 }
 
@@ -134,6 +206,7 @@ function startReplica(id: string, slackUrl: string, statuses: Map<string, Replic
       BURST_SLACK_URL: slackUrl,
       BURST_BASE: String(BASE),
       BURST_ID_KEY: ID_KEY,
+      BURST_SAMPLES: String(samples),
     },
     stdio: ["pipe", "pipe", "inherit"],
   });
@@ -152,6 +225,14 @@ function startReplica(id: string, slackUrl: string, statuses: Map<string, Replic
     }
   });
   return child;
+}
+
+function commitId(): string {
+  try {
+    return execFileSync("git", ["rev-parse", "--short", "HEAD"], { cwd: here }).toString().trim();
+  } catch {
+    return "unknown";
+  }
 }
 
 const sleep = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
@@ -181,15 +262,23 @@ async function runOnce(
   for (const child of children) child.stdin?.end("go\n");
   let killAt: number | null = null;
   let orphaned: string[] = [];
+  let leaseEnd = 0;
   let complete = false;
   const deadline = benchStart + capMs;
+  let stuck = new Map<string, string>();
   while (Date.now() < deadline) {
     await sleep(kill && killAt === null ? 20 : 250);
-    const [row] = await query<{ final: string }>(
-      "SELECT count(*) AS final FROM post_claim WHERE kind = 'digest' AND period = $1 AND status IN ('posted', 'missed')",
+    const finalRows = await query<{ channel: string }>(
+      "SELECT channel FROM post_claim WHERE kind = 'digest' AND period = $1 AND status IN ('posted', 'missed')",
       [PERIOD],
     );
-    const final = Number(row.final);
+    const finals = new Set(finalRows.map((r) => r.channel));
+    stuck = new Map(
+      [...statuses.values()]
+        .flatMap((s) => Object.entries(s.failing ?? {}))
+        .filter(([channel]) => !finals.has(channel)),
+    );
+    const final = finals.size;
     if (kill && killAt === null && final >= channels.length / 2) {
       // Half-way, and at a moment the victim holds a job (composing or posting): SIGKILL it.
       const held = await query<{ channel: string }>(
@@ -199,14 +288,16 @@ async function runOnce(
       if (held.length > 0) {
         children[1].kill("SIGKILL");
         killAt = Date.now();
-        const after = await query<{ channel: string }>(
-          "SELECT channel FROM post_claim WHERE claimed_by = $1 AND status IN ('claimed', 'posting')",
+        const after = await query<{ channel: string; lease_until: string }>(
+          "SELECT channel, lease_until FROM post_claim WHERE claimed_by = $1 AND status IN ('claimed', 'posting')",
           [ids[1]],
         );
         orphaned = after.map((h) => h.channel);
+        // The replicas' clock is BASE + real time since "go", so a lease ends at t0 + (until − BASE).
+        leaseEnd = Math.max(0, ...after.map((h) => t0 + (Number(h.lease_until) - BASE)));
       }
     }
-    if (final >= channels.length) {
+    if (final + stuck.size >= channels.length) {
       complete = true;
       break;
     }
@@ -245,7 +336,9 @@ async function runOnce(
         .filter((t): t is number => t !== null && t >= (killAt ?? 0));
       const lastTakeover = times.length > 0 ? (Math.max(...times) - killAt) / 1000 : 0;
       const takenBy = rows.filter((r) => r.status === "posted" && r.claimed_by !== ids[1]).length;
-      takeover = `${orphaned.length} held at kill: ${takenBy} posted by others, last ${lastTakeover.toFixed(1)} s after kill (lease ${leaseMs / 1000} s); ${rows.filter((r) => r.status === "missed").length} missed`;
+      const afterLease =
+        times.length > 0 ? ((Math.max(...times) - leaseEnd) / 1000).toFixed(1) : "–";
+      takeover = `${orphaned.length} held at kill: ${takenBy} posted by others, last ${lastTakeover.toFixed(1)} s after kill, ${afterLease} s after the dead replica's lease ended (lease ${leaseMs / 1000} s); ${rows.filter((r) => r.status === "missed").length} missed`;
     }
   }
   return {
@@ -267,8 +360,16 @@ async function runOnce(
     rssMb: ids.map((id) => `${((statuses.get(id)?.maxRssKb ?? 0) / 1024).toFixed(0)}`).join("/"),
     statementsPerDigest: statements / channels.length,
     refused: slack.refused(),
+    stuck: stuckSummary(stuck),
     takeover,
   };
+}
+
+/** "3 RangeError" style counts of the channels whose digest kept failing, by error. */
+function stuckSummary(stuck: Map<string, string>): string {
+  const byError = new Map<string, number>();
+  for (const error of stuck.values()) byError.set(error, (byError.get(error) ?? 0) + 1);
+  return [...byError].map(([error, n]) => `${n} ${error}`).join(", ") || "none";
 }
 
 function table(results: RunResult[]): string {
@@ -281,6 +382,7 @@ function table(results: RunResult[]): string {
     "doubles",
     "no post",
     "misses (reason)",
+    "compose failing",
     "share of posts",
     "peak RSS MB",
     "SQL/digest",
@@ -295,6 +397,7 @@ function table(results: RunResult[]): string {
     String(r.doubles),
     String(r.zeros),
     r.misses,
+    r.stuck,
     r.shares,
     r.rssMb,
     r.statementsPerDigest.toFixed(1),
@@ -309,7 +412,7 @@ async function main(): Promise<void> {
   const channels = Array.from({ length: channelsWanted }, (_, i) =>
     coreChannelId(TEAM, `C${i.toString(36).toUpperCase().padStart(6, "0")}`),
   );
-  const slack = await startFakeSlack(1000);
+  const slack = await startFakeSlack({ minIntervalMs: 1000, workspacePerMinute });
   try {
     await seed(channels);
     const results: RunResult[] = [];
@@ -319,8 +422,9 @@ async function main(): Promise<void> {
       ["3", 3, false],
       ["3k", 3, true],
     ];
-    for (const [key, replicas, kill] of plan) {
-      if (!runsWanted.includes(key)) continue;
+    // In the order --runs names them (so the runs that matter most can go first under a cap).
+    const ordered = runsWanted.flatMap((key) => plan.filter((p) => p[0] === key));
+    for (const [, replicas, kill] of ordered) {
       if (Date.now() >= benchStart + capMs) break;
       const label = kill ? `${replicas} replicas, one SIGKILLed` : `${replicas} replica(s)`;
       const result = await runOnce(label, replicas, kill, channels, slack);
@@ -329,7 +433,12 @@ async function main(): Promise<void> {
     }
     console.log("");
     console.log(
-      `Burst: ${channels.length} channels, digests due Monday 09:00 UTC, lease ${leaseMs / 1000} s, Slack faked at 1 post/s per channel`,
+      `Burst: ${channels.length} channels, digests due Monday 09:00 UTC, lease ${leaseMs / 1000} s, ${samples} draws per analysis, Slack faked at 1 post/s per channel and ${workspacePerMinute} posts/min per workspace`,
+    );
+    console.log(
+      `${new Date().toISOString()}, commit ${commitId()}, ${availableParallelism()} cores, load average at the end ${loadavg()
+        .map((l) => l.toFixed(2))
+        .join(" ")}`,
     );
     console.log(table(results));
     const one = results.find((r) => r.label.startsWith("1 "));

@@ -130,13 +130,15 @@ export class WorkerPool implements AnalysisRunner {
    * `drawShares(plan, from, to)` on its own per-draw streams, and the results land at their own
    * offsets, so the draws are the same as in one thread for any pool size. Null (draws made by
    * the caller) when the pool runs in-thread, has jobs of its own, or a worker fails or does not
-   * start within `startMs`.
+   * start within `startMs`. `meanwhile`, when given, runs on the calling thread right after the
+   * workers get the task (the CLI computes |λ2| there), before the wait.
    */
   drawRangesSync(
     plan: DrawPlan,
     samples: number,
     onProgress?: (done: number, total: number) => void,
     startMs = 30_000,
+    meanwhile?: () => void,
   ): DrawRange | null {
     if (this.inThread || this.closed || this.load > 0 || samples === 0) return null;
     this.warm();
@@ -147,6 +149,8 @@ export class WorkerPool implements AnalysisRunner {
     const chunk = Math.max(1, Math.ceil(samples / (8 * this.size)));
     const task: DrawTask = { type: "draws", plan, samples, chunk, shares, voices, control };
     for (const slot of this.slots) slot.worker.postMessage(task);
+    // Work of the caller's that does not need the draws runs while the workers draw.
+    meanwhile?.();
     const begin = performance.now();
     let done = 0;
     while (done < samples) {

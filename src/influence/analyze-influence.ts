@@ -21,9 +21,15 @@ import { stationaryVector } from "./stationary-vector.js";
 
 /**
  * Computes draws [0, samples) of `plan` elsewhere (worker threads), with the same result as
- * `drawShares(plan, 0, samples)`; null when it cannot, and the draws are made here.
+ * `drawShares(plan, 0, samples)`; null when it cannot, and the draws are made here. Once the
+ * draws are under way it may call `meanwhile` on the calling thread (work that does not depend
+ * on them, such as |λ2|), at most once.
  */
-export type DrawRangeRunner = (plan: DrawPlan, samples: number) => DrawRange | null;
+export type DrawRangeRunner = (
+  plan: DrawPlan,
+  samples: number,
+  meanwhile?: () => void,
+) => DrawRange | null;
 
 export interface InfluenceOptions {
   /** "auto" (prior strength learnt per row) or a fixed strength α ≥ 0. */
@@ -97,9 +103,16 @@ export function analyzeInfluence(counts: CountMatrix, options: InfluenceOptions)
     seed: options.seed,
     start: point,
   });
+  // |λ2| needs only the point rows: while workers make the draws, the calling thread computes it.
+  let lambda2: number | null = null;
+  const computeLambda2 = (): void => {
+    lambda2 ??= secondEigenvalue(rows, options.selfWeight, point);
+  };
   const range =
-    (options.transform === undefined ? options.drawRanges?.(plan, options.samples) : null) ??
-    drawHere(plan, options.samples, options.transform, options.onDraw);
+    (options.transform === undefined
+      ? options.drawRanges?.(plan, options.samples, computeLambda2)
+      : null) ?? drawHere(plan, options.samples, options.transform, options.onDraw);
+  computeLambda2();
   const n = prior.n;
   const draws: Float64Array[] = [];
   for (let k = 0; k < options.samples; k++) draws.push(range.shares.subarray(k * n, (k + 1) * n));
@@ -108,7 +121,7 @@ export function analyzeInfluence(counts: CountMatrix, options: InfluenceOptions)
     shares: point,
     draws,
     effectiveVoicesDraws: range.effectiveVoices,
-    secondEigenvalue: secondEigenvalue(rows, options.selfWeight, point),
+    secondEigenvalue: lambda2 ?? secondEigenvalue(rows, options.selfWeight, point),
     priorStrength: prior.priorStrength,
     posterior: posteriorMethod(n),
   };

@@ -89,8 +89,20 @@ export interface ChannelInfo {
  */
 export type ClaimStatus = "claimed" | "posting" | "posted" | "missed";
 
-/** Why a claim was recorded as missed; kept in `platformMessageId` as `(missed: <reason>)`. */
-export type MissReason = "outcome unknown" | "too late" | "not taken over";
+/**
+ * Why a claim was recorded as missed; kept in `platformMessageId` as `(missed: <reason>)`.
+ * "refused: <code>" is a post the platform answered with an error (it certainly did not arrive
+ * and will not by retrying, e.g. Slack's `channel_not_found`, Teams' 403).
+ */
+export type MissReason = "outcome unknown" | "too late" | "not taken over" | `refused: ${string}`;
+
+/** How `settlePost` ends a "posting" claim. */
+export type PostSettlement =
+  /** The platform shows the post: record its message id. */
+  | { readonly status: "posted"; readonly platformMessageId: string }
+  /** The platform shows no such post: open again (lease kept, so any replica may take it). */
+  | { readonly status: "claimed" }
+  | { readonly status: "missed"; readonly reason: MissReason };
 
 /** The message id recorded for a claim missed for `reason`. */
 export function missedMarker(reason: MissReason): string {
@@ -193,10 +205,20 @@ export interface Store {
    */
   beginPost(key: ClaimKey & { claimedBy: string; now: number; leaseMs: number }): Promise<boolean>;
   /**
-   * Moves the caller's "posting" claim back to "claimed" (lease kept) when the platform refused
-   * the call without taking it (e.g. rate limited), so it may be tried again; false if not held.
+   * Moves the caller's "posting" claim back to "claimed" when the platform refused the call
+   * without taking it (e.g. rate limited), so it may be tried again: with `retryAt` its lease ends
+   * then (any replica may take it from that time, e.g. after Slack's `Retry-After`), else the
+   * lease is kept. False if not held.
    */
-  releasePost(key: ClaimKey & { claimedBy: string }): Promise<boolean>;
+  releasePost(key: ClaimKey & { claimedBy: string; retryAt?: number }): Promise<boolean>;
+  /**
+   * Ends a "posting" claim as `settlement` says: the caller's own (`claimedBy`), or, with
+   * `claimedBy` null, anyone's whose lease ended before `now` (a post whose outcome was unknown,
+   * once the platform was asked). False when the claim is no longer "posting" or not eligible.
+   */
+  settlePost(
+    key: ClaimKey & { claimedBy: string | null; now: number; settlement: PostSettlement },
+  ): Promise<boolean>;
   /**
    * Records a slot as missed for `reason` (inserting the row, or turning a "claimed" one whose
    * lease ended before `now` into a miss); true when this call recorded it.
@@ -211,8 +233,11 @@ export interface Store {
    * "not taken over", e.g. a note hour every replica has passed); without it, none of those.
    */
   markMissedClaims(now: number, abandonedBefore?: number): Promise<PostClaim[]>;
-  /** "claimed" claims of `kind` whose lease ended before `now` (takeover candidates), sorted. */
-  expiredClaims(now: number, kind: string): Promise<PostClaim[]>;
+  /**
+   * Claims of `kind` in `status` (default "claimed": takeover candidates; "posting": posts whose
+   * outcome is unknown) whose lease ended before `now`, sorted.
+   */
+  expiredClaims(now: number, kind: string, status?: "claimed" | "posting"): Promise<PostClaim[]>;
 
   /** Deletes every row naming the member (by platform id) in the channel. */
   eraseMember(channel: string, platformId: string): Promise<EraseCounts>;

@@ -2,12 +2,14 @@
  * @module report-page
  * The report as one self-contained HTML page (`plumbline report`, and `/reports/<token>` on the
  * bot): the figures of one `AnalysisReport`, its charts as inline SVG (shares, effective voices and
- * the largest share per week, the attention map, a compare's two periods), the how to read and the
+ * the largest share per week, the attention map, a compare's two periods), the meeting formats
+ * (bands on the weekly charts and a comparison panel, format-panel.ts), the how to read and the
  * cautions. Every chart has a visible title, a legend, and its text equivalent: the table of what it
  * draws, beside it; on narrow screens the attention map becomes a ranked list. Inline CSS and SVG only, and a Content-Security-Policy that forbids every fetch, so the
  * page makes no network request and works offline. Members are labelled by the naming rules.
  */
 
+import type { FormatsReport } from "../analysis/compare-formats.js";
 import type { CompareReport } from "../analysis/compare-periods.js";
 import type { Block } from "../domain/blocks.js";
 import type { AttentionInput } from "../domain/counts.js";
@@ -28,6 +30,7 @@ import { compareBlocks } from "./compare-blocks.js";
 import { disclose } from "./disclosure.js";
 import { explainBlocks } from "./explain-blocks.js";
 import { decimal1, percent, percentRange } from "./format.js";
+import { formatBands, formatsInWeek, formatsSection } from "./format-panel.js";
 import { memberLabeller, type NamingPolicy, samePageLabels } from "./naming.js";
 import { summaryBlocks } from "./summary-blocks.js";
 
@@ -45,6 +48,8 @@ export interface ReportPageInput {
   readonly history?: readonly WeeklyPoint[] | null;
   /** A compare of two periods, shown after the figures. */
   readonly compare?: CompareReport | null;
+  /** The meeting formats compared: bands on the weekly charts and a panel of their own. */
+  readonly formats?: FormatsReport | null;
   /** Epoch ms the page was made. */
   readonly generatedAt: number;
   /** A line saying who the page is for, e.g. "Shown only to you …". */
@@ -85,7 +90,11 @@ function weekDay(until: number): string {
   return new Date(until).toISOString().slice(0, 10);
 }
 
-function historyCharts(history: readonly WeeklyPoint[], windowDays: number): string {
+function historyCharts(
+  history: readonly WeeklyPoint[],
+  windowDays: number,
+  formats: FormatsReport | null,
+): string {
   if (history.length < 2 || history.every((p) => p.effectiveVoices === null)) {
     return "<p>Not enough weeks with figures yet for a trend.</p>";
   }
@@ -99,6 +108,11 @@ function historyCharts(history: readonly WeeklyPoint[], windowDays: number): str
   const line = history[history.length - 1].line;
   const shareSteps = Math.min(10, Math.ceil((shareTop * 1.1) / 0.1));
   const shareTicks = shareSteps > 6 && shareSteps % 2 === 0 ? shareSteps / 2 : shareSteps;
+  const bands = formatBands(
+    formats,
+    history.map((p) => p.until),
+  );
+  const bandWords = bands.length > 0 ? " Hatched bands: the meeting format in force." : "";
   const voices = bandLineChart({
     kind: "effective-voices-trend",
     title: "Effective voices per week",
@@ -117,6 +131,7 @@ function historyCharts(history: readonly WeeklyPoint[], windowDays: number): str
     seriesLabel: "effective voices",
     intervalLabel: "interval",
     ceiling: { values: history.map((p) => p.members), label: "active members (most possible)" },
+    bands,
   });
   const top = bandLineChart({
     kind: "top-share-trend",
@@ -135,10 +150,17 @@ function historyCharts(history: readonly WeeklyPoint[], windowDays: number): str
     seriesLabel: "largest share",
     intervalLabel: "interval",
     reference: line === null ? null : { value: line, label: `line ${percent(line)}` },
+    bands,
   });
   const voicesTable = chartTable(
     "effective voices per week",
-    ["week ending", "effective voices", "interval", "active members"],
+    [
+      "week ending",
+      "effective voices",
+      "interval",
+      "active members",
+      ...(formats ? ["format that week"] : []),
+    ],
     history.map((p) => [
       weekDay(p.until),
       p.effectiveVoices ? decimal1(p.effectiveVoices.value) : "no figure",
@@ -146,19 +168,21 @@ function historyCharts(history: readonly WeeklyPoint[], windowDays: number): str
         ? `${decimal1(p.effectiveVoices.low)}–${decimal1(p.effectiveVoices.high)}`
         : "–",
       String(p.members),
+      ...(formats ? [formatsInWeek(formats, p.until)] : []),
     ]),
   );
   const topTable = chartTable(
     "largest share per week",
-    ["week ending", "largest share", "interval", "line"],
+    ["week ending", "largest share", "interval", "line", ...(formats ? ["format that week"] : [])],
     history.map((p) => [
       weekDay(p.until),
       p.top ? percent(p.top.share) : "no figure",
       p.top ? percentRange(p.top.low, p.top.high) : "–",
       p.line === null ? "–" : percent(p.line),
+      ...(formats ? [formatsInWeek(formats, p.until)] : []),
     ]),
   );
-  return `<div class="charts">${figure(voices, `Effective voices: how many evenly heard voices the channel's shared view is worth, each week, counting the ${windowDays} days before it.`, voicesTable)}${figure(top, "The largest single share each week; the dashed line is the line.", topTable)}</div>`;
+  return `<div class="charts">${figure(voices, `Effective voices: how many evenly heard voices the channel's shared view is worth, each week, counting the ${windowDays} days before it.${bandWords}`, voicesTable)}${figure(top, `The largest single share each week; the dashed line is the line.${bandWords}`, topTable)}</div>`;
 }
 
 function sharesTable(
@@ -298,8 +322,9 @@ export function reportPage(input: ReportPageInput): string {
       ? `<section id="charts"><h2>Charts</h2><div class="charts">${shares}</div>${map}</section>`
       : "",
     input.history
-      ? `<section id="history"><h2>Week by week</h2>${historyCharts(input.history, report.window.days)}</section>`
+      ? `<section id="history"><h2>Week by week</h2>${historyCharts(input.history, report.window.days, input.formats ?? null)}</section>`
       : "",
+    input.formats ? formatsSection(input.formats) : "",
     input.compare
       ? compareSection(input.compare, samePageLabels(policy, report, input.compare))
       : "",

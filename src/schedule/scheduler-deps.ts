@@ -18,6 +18,8 @@ export const DEFAULT_LEASE_MS = 15 * 60_000;
 export const LATE_LIMIT_MS = DAY_MS;
 /** How far back each pass looks for digest slots (a week and a day: every weekly slot is seen). */
 export const DEFAULT_LOOKBACK_MS = 8 * DAY_MS;
+/** How far before a claim was taken `findPost` looks (clocks of replica and platform differ). */
+export const LOOK_BACK_MS = 60_000;
 /** Message id recorded when the compose function had nothing to post. */
 export const NOTHING_POSTED = "(nothing posted)";
 /** Message id recorded for a note delivered privately to the facilitators. */
@@ -65,12 +67,6 @@ export interface SchedulerDeps {
   readonly duePosts?: (channel: string, now: number) => Promise<readonly DuePost[]>;
   /** Delivers a note to the channel's facilitators privately. */
   readonly sendToFacilitators?: (channel: string, message: OutgoingMessage) => Promise<void>;
-  /**
-   * True when a failed platform call certainly did not reach the channel (e.g. a 429 after the
-   * send queue's waits): the claim goes back to "claimed" and a later pass tries again, until
-   * the slot is 24 h late. Any other failure leaves the outcome unknown and is never retried.
-   */
-  readonly notSent?: (error: unknown) => boolean;
   readonly leaseMs?: number;
   readonly lookbackMs?: number;
 }

@@ -10,17 +10,22 @@
  * ends) and "posting" from just before the platform call. A "posting" claim left unfinished past
  * its lease is logged as a miss ("outcome unknown") and never posted again, because the first post
  * may have reached the channel (the platforms offer no idempotency key). A slot found 24 hours or
- * more late is recorded as missed, not posted. Notes are evaluated once per UTC hour and claimed
- * per hour the same way. Posts due at a time of their own (a format trial's week switches and its
- * result, `duePosts`) are claimed under kind "trial" the same two-phase way, so each is posted
- * once across replicas and restarts. Time comes from the injected clock; only `start` uses real
- * timers.
+ * more late is recorded as missed, not posted. A failed platform call is sorted by what the platform
+ * says it means (`describeFailure`): not sent (rate limited) opens the claim again at the
+ * platform's retry time; refused records a miss with the platform's reason; unknown (timeout,
+ * 5xx) is looked up on the platform once the lease ends, by the marker the post carried
+ * (`findPost`, Slack), and recorded as posted or opened again — or, where the platform cannot
+ * look (Teams), recorded as missed "outcome unknown". Notes are evaluated once per UTC hour and
+ * claimed per hour the same way. Posts due at a time of their own (a format trial's week switches
+ * and its result, `duePosts`) are claimed under kind "trial" the same two-phase way, so each is
+ * posted once across replicas and restarts. Time comes from the injected clock; only `start` uses
+ * real timers.
  */
 import { createHash } from "node:crypto";
 import type { ChannelSettings } from "../domain/channel-settings.js";
 import { isPlumblineError, PlumblineError } from "../domain/errors.js";
-import type { OutgoingMessage } from "../ports/chat-platform.js";
-import type { ClaimKey, PostClaim } from "../ports/store.js";
+import type { OutgoingMessage, PostFailure } from "../ports/chat-platform.js";
+import type { ClaimKey, MissReason, PostClaim } from "../ports/store.js";
 import { digestSlotsBetween } from "./digest-slots.js";
 import {
   DEFAULT_LEASE_MS,
@@ -28,6 +33,7 @@ import {
   type DuePost,
   FACILITATORS_DELIVERY,
   LATE_LIMIT_MS,
+  LOOK_BACK_MS,
   NOTHING_POSTED,
   type SchedulerDeps,
 } from "./scheduler-deps.js";
@@ -63,7 +69,15 @@ export class Scheduler {
   /** One pass over every channel: post what is due, record what was missed. */
   async tick(): Promise<TickReport> {
     const at = this.deps.clock.now();
-    const report: TickReport = { at, posted: [], skipped: [], missed: [], failed: [] };
+    const report: TickReport = {
+      at,
+      posted: [],
+      skipped: [],
+      missed: [],
+      failed: [],
+      retrying: [],
+      settled: [],
+    };
     const channels = this.walkOrder((await this.deps.store.listChannels()).map((c) => c.channel));
     for (const channel of channels) {
       let settings: ChannelSettings;
@@ -78,9 +92,15 @@ export class Scheduler {
       if (this.deps.clock.now() - this.lastSweep >= this.leaseMs / 4) await this.takeOver(report);
       await this.runNote(channel, settings, at, report);
     }
+    await this.settleUnknown(report);
     await this.takeOver(report);
     const now = this.deps.clock.now();
-    for (const claim of await this.deps.store.markMissedClaims(now, now - LATE_LIMIT_MS)) {
+    // Where the platform can be asked, an unknown outcome gets one more lease to be looked up.
+    const unknownBefore = this.deps.platform.findPost === undefined ? now : now - this.leaseMs;
+    for (const claim of await this.deps.store.markMissedClaims(
+      unknownBefore,
+      now - LATE_LIMIT_MS,
+    )) {
       this.missed(report, claim, missReasonOf(claim));
     }
     return report;
@@ -120,8 +140,14 @@ export class Scheduler {
     report: TickReport,
     claim: Pick<PostClaim, "channel" | "kind" | "period" | "claimedBy">,
     reason: MissedEntry["reason"],
+    detail?: string,
   ): void {
-    const entry = { ...pick(claim), claimedBy: claim.claimedBy, reason };
+    const entry: MissedEntry = {
+      ...pick(claim),
+      claimedBy: claim.claimedBy,
+      reason,
+      ...(detail === undefined ? {} : { detail }),
+    };
     report.missed.push(entry);
     this.deps.logger.warn({ ...entry, replica: this.deps.replicaId }, "scheduled post missed");
   }
@@ -310,12 +336,16 @@ export class Scheduler {
         await this.deps.sendToFacilitators(ref.channel, message);
         messageId = FACILITATORS_DELIVERY;
       } else {
-        messageId = (await this.deps.platform.postToChannel(ref.channel, message)).messageId;
+        messageId = (
+          await this.deps.platform.postToChannel(ref.channel, message, {
+            marker: postMarker(ref),
+            startWithinMs: this.leaseMs / 2,
+          })
+        ).messageId;
       }
     } catch (error) {
-      // Refused without being taken (e.g. rate limited): open again for a later pass.
-      if (this.deps.notSent?.(error) === true) await this.deps.store.releasePost(holder);
-      throw error;
+      await this.afterFailedPost(report, holder, audience, error);
+      return false;
     }
     if (!(await this.complete(ref, messageId))) {
       this.deps.logger.warn({ ...ref, messageId }, "posted, but the claim was no longer ours");
@@ -323,6 +353,89 @@ export class Scheduler {
     report.posted.push({ ...ref, slotAt, audience, messageId });
     this.deps.logger.info({ ...ref, audience, messageId, replica: this.deps.replicaId }, "posted");
     return true;
+  }
+
+  /**
+   * What a failed platform call leaves: "not sent" (rate limited after the queue's waits, or never
+   * started) opens the claim again at the platform's retry time, so any replica's next pass tries
+   * it, until the slot is 24 h late; "refused" records the miss with the platform's reason;
+   * "unknown" leaves the claim "posting", to be looked up on the platform once its lease ends
+   * (`settleUnknown`) or, where the platform cannot look, recorded as missed "outcome unknown".
+   */
+  private async afterFailedPost(
+    report: TickReport,
+    holder: SlotRef & { claimedBy: string },
+    audience: "channel" | "facilitators",
+    error: unknown,
+  ): Promise<void> {
+    const failure: PostFailure =
+      audience === "channel"
+        ? (this.deps.platform.describeFailure?.(holder.channel, error) ?? { outcome: "unknown" })
+        : { outcome: "unknown" };
+    const now = this.deps.clock.now();
+    if (failure.outcome === "not-sent") {
+      const retryAt = now + (failure.retryAfterMs ?? 0);
+      if (await this.deps.store.releasePost({ ...holder, retryAt })) {
+        report.retrying.push({ ...pick(holder), retryAt, error: errorName(error) });
+        this.deps.logger.warn(
+          { ...pick(holder), retryAt, error: errorName(error), replica: this.deps.replicaId },
+          "post not taken by the platform; open again for a later pass",
+        );
+        return;
+      }
+    } else if (failure.outcome === "refused") {
+      const reason: MissReason = `refused: ${failure.reason}`;
+      const settled = await this.deps.store.settlePost({
+        ...holder,
+        now,
+        settlement: { status: "missed", reason },
+      });
+      if (settled) {
+        this.missed(report, holder, "refused", failure.reason);
+        return;
+      }
+    }
+    this.fail(report, { ...pick(holder), kind: holder.kind }, error);
+  }
+
+  /**
+   * Posts whose outcome was unknown (a timeout, a 5xx, a replica killed while posting), once their
+   * lease ended: the platform is asked whether the post carrying the claim's marker arrived. Found:
+   * recorded as posted with that message id. Not there: opened again, so one replica posts it.
+   * When the platform cannot tell, the claim stays for the next pass, and is recorded as missed
+   * "outcome unknown" one lease later.
+   */
+  private async settleUnknown(report: TickReport): Promise<void> {
+    const findPost = this.deps.platform.findPost?.bind(this.deps.platform);
+    if (findPost === undefined) return;
+    const now = this.deps.clock.now();
+    for (const claim of await this.deps.store.expiredClaims(now, "digest", "posting")) {
+      let found: string | null;
+      try {
+        found = await findPost(claim.channel, postMarker(claim), claim.claimedAt - LOOK_BACK_MS);
+      } catch (error) {
+        this.deps.logger.warn(
+          { ...pick(claim), error: errorName(error), replica: this.deps.replicaId },
+          "could not ask the platform whether a post arrived; asking again next pass",
+        );
+        continue;
+      }
+      const settled = await this.deps.store.settlePost({
+        ...pick(claim),
+        claimedBy: null,
+        now,
+        settlement:
+          found === null ? { status: "claimed" } : { status: "posted", platformMessageId: found },
+      });
+      if (!settled) continue;
+      report.settled.push({ ...pick(claim), found: found !== null });
+      this.deps.logger.info(
+        { ...pick(claim), found: found !== null, messageId: found, replica: this.deps.replicaId },
+        found === null
+          ? "post of unknown outcome is not in the channel; open again"
+          : "post of unknown outcome found in the channel; recorded",
+      );
+    }
   }
 
   private claim(ref: SlotRef, leaseMs: number, member: string | null): Promise<boolean> {
@@ -362,6 +475,11 @@ export class Scheduler {
       "scheduled post failed",
     );
   }
+}
+
+/** The claim's name on the platform (Slack message metadata): kind and period, no content. */
+export function postMarker(key: ClaimKey): string {
+  return `${key.kind} ${key.period}`;
 }
 
 function missReasonOf(claim: PostClaim): MissedEntry["reason"] {

@@ -45,9 +45,28 @@ export interface MissedEntry {
    * "too-late": found 24 h or more after its slot (or still unsent then, e.g. rate limited);
    * "outcome-unknown": the holder started the platform call and never finished within its lease
    * (the post may have arrived, so it is not tried again); "not-taken-over": a claim whose holder
-   * stopped while composing and that no replica took over within 24 h of its lease ending.
+   * stopped while composing and that no replica took over within 24 h of its lease ending;
+   * "refused": the platform answered the post with an error (`detail`: its code).
    */
-  readonly reason: "too-late" | "outcome-unknown" | "not-taken-over";
+  readonly reason: "too-late" | "outcome-unknown" | "not-taken-over" | "refused";
+  readonly detail?: string;
+}
+
+/** A post the platform did not take (rate limited): open again from `retryAt`. */
+export interface RetryingEntry {
+  readonly channel: string;
+  readonly kind: string;
+  readonly period: string;
+  readonly retryAt: number;
+  readonly error: string;
+}
+
+/** A post of unknown outcome looked up on the platform: found (recorded) or opened again. */
+export interface SettledEntry {
+  readonly channel: string;
+  readonly kind: string;
+  readonly period: string;
+  readonly found: boolean;
 }
 
 export interface FailedEntry {
@@ -65,4 +84,6 @@ export interface TickReport {
   readonly skipped: SkippedEntry[];
   readonly missed: MissedEntry[];
   readonly failed: FailedEntry[];
+  readonly retrying: RetryingEntry[];
+  readonly settled: SettledEntry[];
 }

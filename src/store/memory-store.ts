@@ -13,6 +13,7 @@ import type {
   EraseCounts,
   MissReason,
   PostClaim,
+  PostSettlement,
   PurgeCounts,
   PurgeCutoffs,
   Store,
@@ -154,12 +155,40 @@ class MemoryStore implements Store {
     return true;
   }
 
-  async releasePost(key: ClaimKey & { claimedBy: string }): Promise<boolean> {
+  async releasePost(key: ClaimKey & { claimedBy: string; retryAt?: number }): Promise<boolean> {
     const claim = this.claims.get(claimId(key));
     if (claim === undefined || claim.claimedBy !== key.claimedBy || claim.status !== "posting") {
       return false;
     }
-    this.claims.set(claimId(key), { ...claim, status: "claimed" });
+    this.claims.set(claimId(key), {
+      ...claim,
+      status: "claimed",
+      leaseUntil: key.retryAt ?? claim.leaseUntil,
+    });
+    return true;
+  }
+
+  async settlePost(
+    key: ClaimKey & { claimedBy: string | null; now: number; settlement: PostSettlement },
+  ): Promise<boolean> {
+    const claim = this.claims.get(claimId(key));
+    if (claim === undefined || claim.status !== "posting") return false;
+    if (
+      key.claimedBy === null ? !(claim.leaseUntil < key.now) : claim.claimedBy !== key.claimedBy
+    ) {
+      return false;
+    }
+    const { settlement } = key;
+    this.claims.set(claimId(key), {
+      ...claim,
+      status: settlement.status,
+      platformMessageId:
+        settlement.status === "posted"
+          ? settlement.platformMessageId
+          : settlement.status === "missed"
+            ? missedMarker(settlement.reason)
+            : null,
+    });
     return true;
   }
 
@@ -202,9 +231,13 @@ class MemoryStore implements Store {
     return this.claims.get(claimId(key)) ?? null;
   }
 
-  async expiredClaims(now: number, kind: string): Promise<PostClaim[]> {
+  async expiredClaims(
+    now: number,
+    kind: string,
+    status: "claimed" | "posting" = "claimed",
+  ): Promise<PostClaim[]> {
     return [...this.claims.values()]
-      .filter((c) => c.status === "claimed" && c.kind === kind && c.leaseUntil < now)
+      .filter((c) => c.status === status && c.kind === kind && c.leaseUntil < now)
       .sort((a, b) => compareStrings(claimId(a), claimId(b)));
   }
 

@@ -14,6 +14,7 @@ import {
   type MissReason,
   missedMarker,
   type PostClaim,
+  type PostSettlement,
 } from "../ports/store.js";
 import { compareStrings } from "./snapshot.js";
 import type { SqlConnection, SqlRow } from "./sql-driver.js";
@@ -57,12 +58,40 @@ export async function beginClaimPost(
 
 export async function releaseClaimPost(
   conn: SqlConnection,
-  key: ClaimKey & { claimedBy: string },
+  key: ClaimKey & { claimedBy: string; retryAt?: number },
 ): Promise<boolean> {
   const changed = await conn.run(
-    `UPDATE post_claim SET status = 'claimed'
+    `UPDATE post_claim SET status = 'claimed', lease_until = COALESCE(?, lease_until)
      WHERE channel = ? AND kind = ? AND period = ? AND claimed_by = ? AND status = 'posting'`,
-    [key.channel, key.kind, key.period, key.claimedBy],
+    [key.retryAt ?? null, key.channel, key.kind, key.period, key.claimedBy],
+  );
+  return changed === 1;
+}
+
+/** Ends a "posting" claim: the holder's own, or (claimedBy null) anyone's past its lease. */
+export async function settleClaimPost(
+  conn: SqlConnection,
+  key: ClaimKey & { claimedBy: string | null; now: number; settlement: PostSettlement },
+): Promise<boolean> {
+  const { settlement } = key;
+  const messageId =
+    settlement.status === "posted"
+      ? settlement.platformMessageId
+      : settlement.status === "missed"
+        ? missedMarker(settlement.reason)
+        : null;
+  const changed = await conn.run(
+    `UPDATE post_claim SET status = ?, platform_message_id = ?
+     WHERE channel = ? AND kind = ? AND period = ? AND status = 'posting'
+       AND ${key.claimedBy === null ? "lease_until < ?" : "claimed_by = ?"}`,
+    [
+      settlement.status,
+      messageId,
+      key.channel,
+      key.kind,
+      key.period,
+      key.claimedBy === null ? key.now : key.claimedBy,
+    ],
   );
   return changed === 1;
 }
@@ -116,10 +145,11 @@ export async function listExpired(
   conn: SqlConnection,
   now: number,
   kind: string,
+  status: "claimed" | "posting" = "claimed",
 ): Promise<PostClaim[]> {
   const rows = await conn.all(
-    "SELECT * FROM post_claim WHERE status = 'claimed' AND kind = ? AND lease_until < ?",
-    [kind, now],
+    "SELECT * FROM post_claim WHERE status = ? AND kind = ? AND lease_until < ?",
+    [status, kind, now],
   );
   return rows.map(toClaim).sort((a, b) => compareStrings(claimOrder(a), claimOrder(b)));
 }

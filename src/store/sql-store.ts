@@ -14,6 +14,7 @@ import type {
   EraseCounts,
   MissReason,
   PostClaim,
+  PostSettlement,
   PurgeCounts,
   PurgeCutoffs,
   Store,
@@ -38,6 +39,7 @@ import {
   markMissed,
   readClaim,
   releaseClaimPost,
+  settleClaimPost,
 } from "./sql-claims.js";
 import type { SqlConnection, SqlDriver } from "./sql-driver.js";
 import { eraseChannelRows, eraseMemberRows, purgeRows } from "./sql-erase.js";
@@ -305,8 +307,14 @@ export class SqlStore implements Store {
     return this.write((conn) => beginClaimPost(conn, key));
   }
 
-  releasePost(key: ClaimKey & { claimedBy: string }): Promise<boolean> {
+  releasePost(key: ClaimKey & { claimedBy: string; retryAt?: number }): Promise<boolean> {
     return this.write((conn) => releaseClaimPost(conn, key));
+  }
+
+  settlePost(
+    key: ClaimKey & { claimedBy: string | null; now: number; settlement: PostSettlement },
+  ): Promise<boolean> {
+    return this.write((conn) => settleClaimPost(conn, key));
   }
 
   recordMiss(request: ClaimRequest & { reason: MissReason }): Promise<boolean> {
@@ -326,8 +334,12 @@ export class SqlStore implements Store {
     return this.write((conn) => markMissed(conn, now, abandonedBefore));
   }
 
-  expiredClaims(now: number, kind: string): Promise<PostClaim[]> {
-    return this.read((conn) => listExpired(conn, now, kind));
+  expiredClaims(
+    now: number,
+    kind: string,
+    status: "claimed" | "posting" = "claimed",
+  ): Promise<PostClaim[]> {
+    return this.read((conn) => listExpired(conn, now, kind, status));
   }
 
   async eraseMember(channel: string, platformId: string): Promise<EraseCounts> {

@@ -5,7 +5,8 @@
  * chart: no two SVG text boxes overlap, no text box or rendered font is under 10 px, no text leaves
  * its chart; axe-core (Deque, 4.x) finds no serious or critical violation; the page requests
  * nothing but itself, logs nothing and never scrolls sideways; at phone width the attention map
- * gives way to its ranked list. Each chart's screenshot is written to test/browser/artifacts/ for
+ * gives way to its ranked list; the demo's meeting formats appear as named bands on both weekly
+ * charts and as the formats panel, at both widths. Each chart's screenshot is written to test/browser/artifacts/ for
  * review. The PNGs sent to Slack (twice the chart's size) and Teams (the chart's own width) get the
  * same text checks at the PNG's own scale. The text-width estimates of text-metrics.ts are checked
  * against Chromium's layout. Forged and expired links get 403. Skips only when Chromium is missing
@@ -167,14 +168,16 @@ describe.skipIf(skip)("report page in Chromium", () => {
         "--disable-sync",
       ],
     });
-  });
+    // Three full reports with their weekly histories and the demo's formats: minutes, not
+    // seconds, on a shared machine.
+  }, 600_000);
 
   afterAll(async () => {
     await browser?.close();
     await server?.close();
   });
 
-  async function check(url: string, label: string, charts: readonly string[]) {
+  async function check(url: string, label: string, charts: readonly string[], formats = false) {
     for (const viewport of VIEWPORTS) {
       const context = await browser.newContext({
         viewport: { width: viewport.width, height: viewport.height },
@@ -211,6 +214,29 @@ describe.skipIf(skip)("report page in Chromium", () => {
         expect(await page.locator(".map-list").isVisible()).toBe(phone);
         expect(await page.locator('svg[data-chart="attention-map"]').isVisible()).toBe(!phone);
       }
+      // The meeting formats (the demo's two): bands named on both weekly charts, and the panel
+      // laid out with a size, its table readable without sideways scrolling.
+      if (formats) {
+        for (const kind of ["effective-voices-trend", "top-share-trend"]) {
+          const names = await page
+            .locator(`svg[data-chart="${kind}"] text.band-label`)
+            .allTextContents();
+          expect(names, `${label} ${kind} at ${viewport.name}`).toEqual([
+            "coordinator-led",
+            "rotating-hosts",
+          ]);
+        }
+        const panel = await page.locator("#formats").boundingBox();
+        expect(panel?.width ?? 0).toBeGreaterThan(0);
+        expect(panel?.height ?? 0).toBeGreaterThan(100);
+        expect(await page.locator("#formats table.formats tbody tr").count()).toBe(2);
+        expect(await page.locator("#formats table.formats").isVisible()).toBe(true);
+        expect(await page.locator("#formats").textContent()).toContain(
+          "spread influence more evenly",
+        );
+      } else {
+        expect(await page.locator("#formats").count()).toBe(0);
+      }
       // Every chart has its text equivalent: a table beside it.
       const figures = await page.locator("figure:has(svg[data-chart])").count();
       expect(
@@ -230,7 +256,7 @@ describe.skipIf(skip)("report page in Chromium", () => {
         fullPage: true,
       });
       // Whole sections too (docs/images/ copies the demo's, see docs/report-page.md).
-      for (const section of ["charts", "history"]) {
+      for (const section of formats ? ["charts", "history", "formats"] : ["charts", "history"]) {
         await page.locator(`#${section}`).screenshot({
           path: join(ARTIFACTS, `${label}-${viewport.name}-section-${section}.png`),
         });
@@ -244,7 +270,7 @@ describe.skipIf(skip)("report page in Chromium", () => {
 
   it("renders the demo's report with a compare, offline", async () => {
     const demo = scenarios[0];
-    await check(demo.url, demo.name, demo.charts);
+    await check(demo.url, demo.name, demo.charts, true);
   });
 
   it("renders a generated 18-member channel", async () => {

@@ -9,11 +9,13 @@
  * stroke and fill opacity blended onto the white chart background.
  */
 import { describe, expect, it } from "vitest";
+import { DEMO_CHANNEL, demoEvents } from "../../adapters/local/demo-scenario.js";
 import { parseDateRange } from "../../src/domain/date-range.js";
 import { analyzeForPage } from "../../src/report/charts/page-analysis.js";
 import { PAGE_STYLE } from "../../src/report/charts/page-style.js";
 import { CHART_COLOURS, OKABE_ITO } from "../../src/report/charts/palette.js";
 import { reportPage } from "../../src/report/report-page.js";
+import { snapshotOf } from "../report/log-builders.js";
 import { FIXTURE_SETTINGS, twoPhaseSnapshot } from "./chart-fixtures.js";
 
 type Rgb = readonly [number, number, number];
@@ -89,7 +91,19 @@ describe("chart and page colours", () => {
     policy: { namesOn: true, disclosure: { minMembers: 3 } },
     generatedAt: 0,
   });
-  const svgs = html.match(/<svg[\s\S]*?<\/svg>/g) ?? [];
+  // The demo's page too: its weekly charts carry the format bands (hatching and edges).
+  const demo = snapshotOf(demoEvents(), DEMO_CHANNEL);
+  const formatsHtml = reportPage({
+    ...analyzeForPage(demo, { ...FIXTURE_SETTINGS, samples: 50 }, { historyWeeks: 8 }),
+    policy: { namesOn: true, disclosure: { minMembers: 3 } },
+    generatedAt: 0,
+  });
+  const svgs = [
+    ...(html.match(/<svg[\s\S]*?<\/svg>/g) ?? []),
+    ...(formatsHtml.match(/<svg[\s\S]*?<\/svg>/g) ?? []).filter((svg) =>
+      svg.includes("format-band"),
+    ),
+  ];
   const elements = svgs.flatMap((svg) =>
     [...svg.matchAll(/<(text|line|path|polyline|polygon|circle|rect)\s([^>]*)>/g)].map((m) => ({
       tag: m[1],
@@ -119,6 +133,9 @@ describe("chart and page colours", () => {
         if (!colour || exempt.has(colour.toLowerCase())) continue;
         // The band's light fill is always drawn with edges in the series colour (checked below).
         if (colour === CHART_COLOURS.interval && e.attrs[opacityAttr] !== undefined) continue;
+        // A format band's hatching: its pattern's own lines and dots are checked as marks here
+        // (grid grey, a reading aid); the band's edges and its name carry the period.
+        if (colour.startsWith("url(#")) continue;
         const opacity = Number(e.attrs[opacityAttr] ?? 1);
         const seen = blend(rgb(colour), opacity, WHITE);
         expect(contrast(seen, WHITE), `${e.tag} ${paint} ${colour}`).toBeGreaterThanOrEqual(3);
@@ -126,6 +143,10 @@ describe("chart and page colours", () => {
       }
     }
     expect(checked).toBeGreaterThan(100);
+    expect(elements.filter((e) => e.attrs.class === "format-edge").length).toBeGreaterThan(0);
+    for (const edge of elements.filter((e) => e.attrs.class === "format-edge")) {
+      expect(edge.attrs.stroke).toBe(CHART_COLOURS.muted);
+    }
     const bands = html.match(/class="band"/g)?.length ?? 0;
     expect(html.match(/class="band-edge"/g)?.length).toBe(2 * bands);
   });

@@ -6,7 +6,12 @@ import {
   type ChannelSettings,
   DEFAULT_CHANNEL_SETTINGS,
 } from "../../src/domain/channel-settings.js";
-import type { ChatPlatform, OutgoingMessage } from "../../src/ports/chat-platform.js";
+import type {
+  ChatPlatform,
+  OutgoingMessage,
+  PostFailure,
+  PostOptions,
+} from "../../src/ports/chat-platform.js";
 import type { ManualClock } from "../../src/ports/clock.js";
 import { MemoryLogger } from "../../src/ports/logger.js";
 import type { Store } from "../../src/ports/store.js";
@@ -21,6 +26,12 @@ export interface RecordedPost {
   readonly text: string;
   readonly at: number;
   readonly messageId: string;
+  readonly marker?: string;
+}
+
+/** An error whose meaning the recording platform reports through `describeFailure`. */
+export function failure(meaning: PostFailure, message = "platform failure"): Error {
+  return Object.assign(new Error(message), { meaning });
 }
 
 /** Records every post with the clock's time; `hang` makes posts never finish (a dying replica). */
@@ -39,14 +50,32 @@ export class RecordingPlatform implements ChatPlatform {
     private readonly prefix: string,
   ) {}
 
-  async postToChannel(channel: string, message: OutgoingMessage): Promise<{ messageId: string }> {
+  /** Set by a test to give the platform a post lookup (as Slack has). */
+  findPost?: (channel: string, marker: string, since: number) => Promise<string | null>;
+
+  async postToChannel(
+    channel: string,
+    message: OutgoingMessage,
+    options: PostOptions = {},
+  ): Promise<{ messageId: string }> {
     this.onPost?.();
     if (this.hang) return new Promise(() => {});
     if (this.failures.length > 0) throw this.failures.shift();
     this.next++;
     const messageId = `${this.prefix}-${this.next}`;
-    this.posts.push({ channel, text: message.text, at: this.clock.now(), messageId });
+    this.posts.push({
+      channel,
+      text: message.text,
+      at: this.clock.now(),
+      messageId,
+      ...(options.marker === undefined ? {} : { marker: options.marker }),
+    });
     return { messageId };
+  }
+
+  /** The meaning attached by `failure(...)`; any other error is "unknown". */
+  describeFailure(_channel: string, error: unknown): PostFailure {
+    return (error as { meaning?: PostFailure }).meaning ?? { outcome: "unknown" };
   }
 
   async postPrivately(): Promise<void> {}

@@ -10,6 +10,7 @@ import type { PostedEntry } from "../../src/schedule/tick-report.js";
 import { createMemoryStore } from "../../src/store/memory-store.js";
 import { openSqliteStore } from "../../src/store/open-store.js";
 import {
+  failure,
   HOUR,
   MINUTE,
   makeScheduler,
@@ -219,12 +220,11 @@ describe("digests on each channel's schedule", () => {
     const store = await memoryStore("c1", "c2");
     const slot = Date.UTC(2026, 10, 2, 9, 0);
     const clock = new ManualClock(slot);
-    const limited = Object.assign(new Error("rate limited"), { unsent: true });
+    const limited = failure({ outcome: "not-sent", retryAfterMs: null }, "rate limited");
     const { scheduler, platform } = makeScheduler({
       store,
       clock,
       leaseMs: 10 * MINUTE,
-      notSent: (error) => (error as { unsent?: boolean }).unsent === true,
       readSettings: settingsMap({ c2: { digest: { weekday: 1, time: "10:00" } } }),
     });
     platform.failures.push(limited, limited);
@@ -356,6 +356,43 @@ describe("several replicas on one SQLite file", () => {
       claimedBy: "dead",
       platformMessageId: "(missed: outcome unknown)",
     });
+  });
+
+  it("asks the platform about a claim whose replica died while posting: absent, posted once; present, recorded", async () => {
+    for (const arrived of [false, true]) {
+      const [storeA, storeB] = await sharedSqlite();
+      const slot = Date.UTC(2026, 10, 2, 9, 0);
+      const clock = new ManualClock(slot);
+      const dead = makeScheduler({ store: storeA, clock, replicaId: "dead", leaseMs: 15 * MINUTE });
+      dead.platform.hang = true;
+      const started = new Promise<void>((resolve) => {
+        dead.platform.onPost = resolve;
+      });
+      void dead.scheduler.tick(); // never finishes: the replica is killed mid-post
+      await started;
+      const live = makeScheduler({ store: storeB, clock, replicaId: "live", leaseMs: 15 * MINUTE });
+      const asked: [string, string, number][] = [];
+      live.platform.findPost = async (channel, marker, since) => {
+        asked.push([channel, marker, since]);
+        return arrived ? "ts-of-the-dead-post" : null;
+      };
+      clock.advance(15 * MINUTE);
+      expect((await live.scheduler.tick()).settled).toEqual([]);
+      expect(asked).toEqual([]);
+      clock.advance(1);
+      const report = await live.scheduler.tick();
+      const period = "2026-11-02T09:00[UTC]";
+      expect(asked).toEqual([["c1", `digest ${period}`, slot - 60_000]]);
+      expect(report.settled).toEqual([{ channel: "c1", kind: "digest", period, found: arrived }]);
+      expect(report.missed).toEqual([]);
+      expect(report.posted.map((p) => p.channel)).toEqual(arrived ? [] : ["c1"]);
+      await runUntil(clock, slot + 3 * DAY_MS, HOUR, () => live.scheduler.tick());
+      expect(live.platform.posts.map((p) => p.marker)).toEqual(arrived ? [] : [`digest ${period}`]);
+      expect(await storeB.getClaim({ channel: "c1", kind: "digest", period })).toMatchObject({
+        status: "posted",
+        platformMessageId: arrived ? "ts-of-the-dead-post" : "live-1",
+      });
+    }
   });
 
   it("takes over a claim whose replica died while composing, once its lease ends", async () => {

@@ -96,7 +96,7 @@ describe("posting to Slack", () => {
     expect(Math.max(...h.sleeps)).toBeGreaterThanOrEqual(2000);
   });
 
-  it("does not retry a post that failed with a 5xx; the claim becomes a miss", async () => {
+  it("does not retry a post that failed with a 5xx at once (its outcome is unknown)", async () => {
     await channelWithActivity();
     let calls = 0;
     nock(API_HOST)
@@ -117,6 +117,152 @@ describe("posting to Slack", () => {
       period: report.failed[0].period ?? "",
     });
     expect(claim?.platformMessageId ?? null).toBeNull();
+  });
+
+  it("asks conversations.history about a post whose answer was lost; found, it is recorded, not re-posted", async () => {
+    await channelWithActivity();
+    const posts: Record<string, string>[] = [];
+    nock(API_HOST)
+      .post("/api/chat.postMessage", (body) => {
+        posts.push(formBody(body));
+        return true;
+      })
+      .reply(503, "upstream unavailable");
+    h.clock.set(DIGEST_AT);
+    const first = await h.bot.scheduler.tick();
+    expect(first.failed).toEqual([expect.objectContaining({ channel: CHANNEL, kind: "digest" })]);
+    const period = first.failed[0].period ?? "";
+    const marker = JSON.parse(posts[0].metadata) as { event_type: string; event_payload: unknown };
+    expect(marker).toEqual({
+      event_type: "plumbline_post",
+      event_payload: { claim: `digest ${period}` },
+    });
+    // The post did arrive: Slack lists it with its metadata once the lease has ended.
+    const asked: Record<string, string>[] = [];
+    nock(API_HOST)
+      .post("/api/conversations.history", (body) => {
+        asked.push(formBody(body));
+        return true;
+      })
+      .reply(200, {
+        ok: true,
+        messages: [
+          { ts: "1793610099.000300", text: "someone else" },
+          { ts: "1793610031.000200", metadata: marker },
+        ],
+        has_more: false,
+      });
+    h.clock.advance(15 * 60_000 + 1);
+    const second = await h.bot.scheduler.tick();
+    expect(asked).toHaveLength(1);
+    expect(asked[0]).toMatchObject({ channel: "C0GENERAL", include_all_metadata: "true" });
+    expect(Number(asked[0].oldest)).toBeLessThanOrEqual(DIGEST_AT / 1000);
+    expect(second.settled).toEqual([{ channel: CHANNEL, kind: "digest", period, found: true }]);
+    expect(second.posted).toEqual([]);
+    expect(await h.store.getClaim({ channel: CHANNEL, kind: "digest", period })).toMatchObject({
+      status: "posted",
+      platformMessageId: "1793610031.000200",
+    });
+    expect(posts).toHaveLength(1);
+  });
+
+  it("re-posts once a post whose answer was lost when Slack's history does not show it", async () => {
+    await channelWithActivity();
+    let posts = 0;
+    nock(API_HOST)
+      .post("/api/chat.postMessage")
+      .reply(() => {
+        posts++;
+        return [504, "gateway timeout"];
+      })
+      .post("/api/conversations.history")
+      .reply(200, { ok: true, messages: [{ ts: "1793610099.000300" }], has_more: false })
+      .post("/api/chat.postMessage")
+      .reply(() => {
+        posts++;
+        return [200, { ok: true, ts: "1793610931.000400" }];
+      });
+    h.clock.set(DIGEST_AT);
+    const first = await h.bot.scheduler.tick();
+    const period = first.failed[0]?.period ?? "";
+    h.clock.advance(15 * 60_000 + 1);
+    const second = await h.bot.scheduler.tick();
+    expect(second.settled).toEqual([{ channel: CHANNEL, kind: "digest", period, found: false }]);
+    expect(second.posted.map((p) => p.messageId)).toEqual(["1793610931.000400"]);
+    expect(posts).toBe(2);
+    // Later passes neither ask nor post again (nock refuses any further call).
+    h.clock.advance(60 * 60_000);
+    const third = await h.bot.scheduler.tick();
+    expect([third.posted, third.failed, third.settled, third.missed]).toEqual([[], [], [], []]);
+  });
+
+  it("records a post Slack refused (channel_not_found) as missed with Slack's reason, and never re-posts it", async () => {
+    await channelWithActivity();
+    let posts = 0;
+    nock(API_HOST)
+      .post("/api/chat.postMessage")
+      .reply(() => {
+        posts++;
+        return [200, { ok: false, error: "channel_not_found" }];
+      });
+    h.clock.set(DIGEST_AT);
+    const first = await h.bot.scheduler.tick();
+    expect(first.failed).toEqual([]);
+    // (The week before the harness's first slot is found 24 h late: a miss of its own.)
+    const refusedMisses = first.missed.filter((m) => m.reason !== "too-late");
+    expect(refusedMisses).toEqual([
+      expect.objectContaining({ channel: CHANNEL, reason: "refused", detail: "channel_not_found" }),
+    ]);
+    const period = refusedMisses[0].period;
+    expect(await h.store.getClaim({ channel: CHANNEL, kind: "digest", period })).toMatchObject({
+      status: "missed",
+      platformMessageId: "(missed: refused: channel_not_found)",
+    });
+    for (let i = 0; i < 4; i++) {
+      h.clock.advance(15 * 60_000 + 1);
+      expect((await h.bot.scheduler.tick()).posted).toEqual([]);
+    }
+    expect(posts).toBe(1);
+  });
+
+  it("reopens a digest still rate limited after the queue's waits at Slack's Retry-After, and posts it once then", async () => {
+    await channelWithActivity();
+    let posts = 0;
+    const limited = () => {
+      posts++;
+      return [429, { ok: false, error: "ratelimited" }, { "Retry-After": "30" }] as const;
+    };
+    nock(API_HOST)
+      .post("/api/chat.postMessage")
+      .times(4)
+      .reply(limited)
+      .post("/api/chat.postMessage")
+      .reply(() => {
+        posts++;
+        return [200, { ok: true, ts: "1793610200.000500" }];
+      });
+    h.clock.set(DIGEST_AT);
+    const first = await h.bot.scheduler.tick();
+    // The queue waited Retry-After three times (the harness's sleep moves the clock), then gave up.
+    expect(posts).toBe(4);
+    expect(h.sleeps.filter((ms) => ms >= 30_000)).toHaveLength(3);
+    expect(first.failed).toEqual([]);
+    expect(first.retrying).toEqual([
+      expect.objectContaining({
+        channel: CHANNEL,
+        kind: "digest",
+        retryAt: h.clock.now() + 30_000,
+      }),
+    ]);
+    const retryAt = first.retrying[0].retryAt;
+    h.clock.set(retryAt - 1000);
+    expect((await h.bot.scheduler.tick()).posted).toEqual([]);
+    expect(posts).toBe(4);
+    h.clock.set(retryAt + 1);
+    const later = await h.bot.scheduler.tick();
+    expect(later.posted.map((p) => p.messageId)).toEqual(["1793610200.000500"]);
+    expect(posts).toBe(5);
+    expect(later.posted[0].slotAt).toBeGreaterThan(retryAt - DIGEST_AT);
   });
 
   it("keeps posts in one channel about a second apart", async () => {

@@ -485,6 +485,83 @@ export function storeContract(name: string, makeStore: () => Promise<StoreFixtur
       ).toEqual([["note", missedMarker("not taken over")]]);
     });
 
+    it("reopens a rate-limited post at its retry time and settles a post whose outcome was unknown", async () => {
+      const peer = fixture.openPeer ? await fixture.openPeer() : store;
+      try {
+        const req = { channel: c, kind: "digest", leaseMs: 60_000 };
+        // Rate limited: back to claimed with its lease ending at the retry time.
+        const slow = { ...req, period: "slow", claimedBy: "r1", now: T0 };
+        await store.claimPost(slow);
+        await store.beginPost({ ...slow, now: T0 + 1000 });
+        expect(await store.releasePost({ ...slow, retryAt: T0 + 31_000 })).toBe(true);
+        expect(await store.getClaim(slow)).toMatchObject({
+          status: "claimed",
+          leaseUntil: T0 + 31_000,
+        });
+        expect(await peer.claimPost({ ...slow, claimedBy: "r2", now: T0 + 31_000 })).toBe(false);
+        expect(await peer.claimPost({ ...slow, claimedBy: "r2", now: T0 + 31_001 })).toBe(true);
+        // Unknown outcome: listed as an expired posting claim once its lease ended.
+        const lost = { ...req, period: "lost", claimedBy: "r1", now: T0 };
+        await store.claimPost(lost);
+        await store.beginPost({ ...lost, now: T0 + 1000 });
+        expect(await store.expiredClaims(T0 + 61_000, "digest", "posting")).toEqual([]);
+        expect(
+          (await store.expiredClaims(T0 + 61_001, "digest", "posting")).map((m) => m.period),
+        ).toEqual(["lost"]);
+        expect((await store.expiredClaims(T0 + 61_001, "digest")).map((m) => m.period)).toEqual([]);
+        // Another replica may settle it only after the lease; the holder at any time.
+        const found = { status: "posted" as const, platformMessageId: "ts7" };
+        expect(
+          await peer.settlePost({ ...lost, claimedBy: null, now: T0 + 61_000, settlement: found }),
+        ).toBe(false);
+        expect(
+          await peer.settlePost({ ...lost, claimedBy: null, now: T0 + 61_001, settlement: found }),
+        ).toBe(true);
+        expect(await store.getClaim(lost)).toMatchObject({
+          status: "posted",
+          platformMessageId: "ts7",
+          claimedBy: "r1",
+        });
+        expect(
+          await store.settlePost({ ...lost, claimedBy: "r1", now: T0, settlement: found }),
+        ).toBe(false);
+        // Not found on the platform: open again at once (lease kept), so one replica re-posts.
+        const gone = { ...req, period: "gone", claimedBy: "r1", now: T0 };
+        await store.claimPost(gone);
+        await store.beginPost({ ...gone, now: T0 + 1000 });
+        const reopen = { status: "claimed" as const };
+        expect(
+          await peer.settlePost({ ...gone, claimedBy: null, now: T0 + 61_001, settlement: reopen }),
+        ).toBe(true);
+        expect(await store.getClaim(gone)).toMatchObject({
+          status: "claimed",
+          platformMessageId: null,
+          leaseUntil: T0 + 61_000,
+        });
+        expect(await peer.claimPost({ ...gone, claimedBy: "r2", now: T0 + 61_002 })).toBe(true);
+        // Refused by the platform: the holder records the miss with the platform's reason.
+        const bad = { ...req, period: "bad", claimedBy: "r1", now: T0 };
+        await store.claimPost(bad);
+        await store.beginPost({ ...bad, now: T0 + 1000 });
+        const refused = {
+          status: "missed" as const,
+          reason: "refused: channel_not_found" as const,
+        };
+        expect(
+          await peer.settlePost({ ...bad, claimedBy: "r2", now: T0 + 2000, settlement: refused }),
+        ).toBe(false);
+        expect(
+          await store.settlePost({ ...bad, claimedBy: "r1", now: T0 + 2000, settlement: refused }),
+        ).toBe(true);
+        expect(await store.getClaim(bad)).toMatchObject({
+          status: "missed",
+          platformMessageId: "(missed: refused: channel_not_found)",
+        });
+      } finally {
+        if (peer !== store) await peer.close();
+      }
+    });
+
     it("gives an expired claim to exactly one of several replicas racing for it", async () => {
       const peer = fixture.openPeer ? await fixture.openPeer() : store;
       try {

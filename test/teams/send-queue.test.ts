@@ -40,6 +40,39 @@ describe("SendQueue", () => {
     for (let i = 1; i < times.length; i++) expect(times[i]).toBeGreaterThanOrEqual(times[i - 1]);
   });
 
+  // Microsoft's per-bot, per-conversation limits for sending (MicrosoftDocs/msteams-docs,
+  // msteams-platform/bots/how-to/rate-limit.md, "Per bot per thread limit"): 7 per 1 s, 8 per 2 s,
+  // 60 per 30 s, 1,800 per 3,600 s. Checked over every window ending at each send.
+  it("keeps a burst to one conversation within every published window (1 s, 2 s, 30 s, 1 h)", async () => {
+    const clock = new ManualClock(0);
+    const q = queue(clock);
+    const times: number[] = [];
+    await Promise.all(
+      Array.from({ length: 1900 }, () => q.send("c1", async () => times.push(clock.now()))),
+    );
+    expect(times).toHaveLength(1900);
+    const published: [number, number][] = [
+      [1000, 7],
+      [2000, 8],
+      [30_000, 60],
+      [3_600_000, 1800],
+    ];
+    let lo = 0;
+    for (const [ms, n] of published) {
+      lo = 0;
+      for (let i = 0; i < times.length; i++) {
+        while (times[lo] <= times[i] - ms) lo++;
+        expect(i - lo + 1).toBeLessThanOrEqual(n);
+      }
+    }
+    // 8 per 2 s binds first, then 60 per 30 s: the 61st send waits for the first to be 30 s old,
+    // and the 1,801st for the first to be an hour old.
+    expect(times[60]).toBe(times[0] + 30_000);
+    expect(times[1800]).toBeGreaterThanOrEqual(times[0] + 3_600_000);
+    // Not slower than the limits need: 60 sends per 30 s on average over the first hour.
+    expect(times[1799]).toBeLessThan(3_600_000);
+  });
+
   it("conversations are paced separately", async () => {
     const clock = new ManualClock(0);
     const sleeps: number[] = [];

@@ -292,6 +292,44 @@ describe("Teams sends", () => {
     expect(h.sleeps[0]).toBeGreaterThanOrEqual(500);
   });
 
+  it("describes a failed post for the scheduler: 403 refused with Teams' code, 502 unknown, 429 left over not sent", async () => {
+    nock.cleanAll();
+    nock.disableNetConnect();
+    nock.enableNetConnect("127.0.0.1");
+    fakeConnectorWithoutPosts();
+    await h.post(fixture("conversation-update-add.json"));
+    const bare = `/amer/v3/conversations/${encodeURIComponent(CHANNEL_CONVERSATION)}/activities`;
+    const platform = h.adapter.platform;
+    const message = { blocks: [{ kind: "note" as const, text: "hello" }], text: "hello" };
+    const failureOf = async () => {
+      try {
+        await platform.postToChannel(CHANNEL, message);
+      } catch (error) {
+        return platform.describeFailure?.(CHANNEL, error);
+      }
+      throw new Error("the post did not fail");
+    };
+    nock(SERVICE_ORIGIN)
+      .post(bare)
+      .reply(403, { error: { code: "BotNotInConversationRoster", message: "not a member" } });
+    expect(await failureOf()).toEqual({
+      outcome: "refused",
+      reason: "HTTP 403 BotNotInConversationRoster",
+    });
+    nock(SERVICE_ORIGIN)
+      .post(bare)
+      .reply(502, { error: { code: "BadGateway" } });
+    expect(await failureOf()).toEqual({ outcome: "unknown" });
+    // The queue retries 429 up to its attempts; one still refused after them was not sent.
+    nock(SERVICE_ORIGIN)
+      .post(bare)
+      .times(5)
+      .reply(429, { error: { code: "TooManyRequests" } }, { "Retry-After": "3" });
+    expect(await failureOf()).toEqual({ outcome: "not-sent", retryAfterMs: 3000 });
+    // No conversation reference stored for a channel: nothing was sent, and Teams cannot be asked.
+    expect(platform.findPost).toBeUndefined();
+  });
+
   it("a 500 (outcome unknown) is not resent", async () => {
     nock.cleanAll();
     nock.disableNetConnect();

@@ -7,7 +7,10 @@
  * with no free place is left out and kept in the point's `<title>` and the table beside the chart.
  * An optional ceiling series (for effective voices: the active members, the most possible) is drawn
  * dotted and sets the axis top. The y axis starts at 0 so heights compare honestly (common practice
- * for quantities with a natural zero).
+ * for quantities with a natural zero). Optional period bands (meeting formats) shade the plot
+ * behind the marks, each format with its own hatching, edged with dashed lines and named in a
+ * strip of their own above the plot and in the legend, so they read without colour and never sit
+ * on a value label.
  */
 import { type LabelCandidate, placeLabels } from "./label-placer.js";
 import { CHART_COLOURS } from "./palette.js";
@@ -31,6 +34,38 @@ export interface BandPoint {
   readonly value: number | null;
   readonly low: number | null;
   readonly high: number | null;
+}
+
+/** A shaded stretch of the x axis, e.g. a format period. */
+export interface PeriodBand {
+  /** Fractional point positions: 0 = the first point, n − 1 = the last (clipped to them). */
+  readonly from: number;
+  readonly to: number;
+  readonly label: string;
+  /** The hatching (same format, same hatching), cycling through FORMAT_HATCHES. */
+  readonly style: number;
+}
+
+/** Hatchings of the period bands, drawn in the grid grey: diagonal, dots, horizontal, crossed. */
+const FORMAT_HATCHES: readonly string[] = [
+  `<line x1="0" y1="0" x2="0" y2="8" stroke="#c8c8c8" stroke-width="3"/>`,
+  `<circle cx="4" cy="4" r="1.7" fill="#c8c8c8"/>`,
+  `<line x1="0" y1="4" x2="8" y2="4" stroke="#c8c8c8" stroke-width="2"/>`,
+  `<line x1="0" y1="0" x2="0" y2="8" stroke="#c8c8c8" stroke-width="1.5"/><line x1="0" y1="4" x2="8" y2="4" stroke="#c8c8c8" stroke-width="1.5"/>`,
+];
+
+function hatchId(kind: string, style: number): string {
+  return `${kind}-period-${style % FORMAT_HATCHES.length}`;
+}
+
+function hatchDefs(kind: string, styles: readonly number[]): string {
+  const unique = [...new Set(styles.map((s) => s % FORMAT_HATCHES.length))];
+  return `<defs>${unique
+    .map(
+      (s) =>
+        `<pattern id="${hatchId(kind, s)}" patternUnits="userSpaceOnUse" width="8" height="8"${s === 0 ? ' patternTransform="rotate(45)"' : ""}>${FORMAT_HATCHES[s]}</pattern>`,
+    )
+    .join("")}</defs>`;
 }
 
 export interface BandLineLayout {
@@ -157,6 +192,8 @@ export function bandLineChart(args: {
   seriesLabel?: string;
   intervalLabel?: string;
   width?: number;
+  /** Shaded periods behind the marks (format periods), named above the plot and in the legend. */
+  bands?: readonly PeriodBand[];
 }): string {
   const c = CHART_COLOURS;
   const colour = args.colour ?? c.share;
@@ -184,8 +221,19 @@ export function bandLineChart(args: {
       label: args.reference.label,
     });
   }
+  const bands = args.bands ?? [];
+  const bandStyles = new Map<string, number>();
+  for (const band of bands) if (!bandStyles.has(band.label)) bandStyles.set(band.label, band.style);
+  for (const [label, style] of bandStyles) {
+    items.push({
+      swatch: `<rect x="0.5" y="1.5" width="21" height="11" fill="url(#${hatchId(args.kind, style)})" stroke="${c.muted}" stroke-width="1" stroke-dasharray="3 2"/>`,
+      label: `format ${label}`,
+    });
+  }
   const key = legend(items, { x: 10, y: heading.bottom + 6, maxWidth: width - 20 });
-  const top = key.bottom + 14;
+  // A strip above the plot for the band names, so they never meet a value label.
+  const strip = bands.length > 0 ? MIN_FONT + 8 : 0;
+  const top = key.bottom + 14 + strip;
   const layout = bandLineLayout(args.points, {
     yMax: args.yMax,
     reference: args.reference?.value ?? null,
@@ -199,6 +247,10 @@ export function bandLineChart(args: {
   const bottom = plot.y + plot.height;
   const parts: string[] = [heading.markup, key.markup];
   const obstacles: Box[] = [];
+  if (bands.length > 0) {
+    parts.push(hatchDefs(args.kind, [...bandStyles.values()]));
+    parts.push(...periodBands({ bands, layout, kind: args.kind, strip, obstacles }));
+  }
   for (const t of layout.yTicks) {
     const label = {
       x: plot.x - 6,
@@ -379,4 +431,73 @@ export function bandLineChart(args: {
     description: args.description,
     body: parts.join(""),
   });
+}
+
+/**
+ * The period bands: a hatched rectangle over the plot's height for each, dashed edges at its
+ * ends, and its name in the strip above the plot where it fits inside the band's width (else in
+ * the band's hover title only; the legend and the chart's table name every format).
+ */
+function periodBands(args: {
+  bands: readonly PeriodBand[];
+  layout: BandLineLayout;
+  kind: string;
+  strip: number;
+  obstacles: Box[];
+}): string[] {
+  const { layout, strip } = args;
+  const { plot } = layout;
+  const last = layout.points.length - 1;
+  const step = last > 0 ? plot.width / last : 0;
+  const xOf = (position: number) => plot.x + Math.max(0, Math.min(last, position)) * step;
+  const bottom = plot.y + plot.height;
+  const parts: string[] = [];
+  const edges = new Set<number>();
+  const requests: { x0: number; x1: number; label: string }[] = [];
+  for (const band of args.bands) {
+    const x0 = xOf(band.from);
+    const x1 = xOf(band.to);
+    if (!(x1 - x0 >= 1)) continue;
+    parts.push(
+      `<g class="format-band"><title>${escapeXml(`format ${band.label}`)}</title><rect x="${num(x0)}" y="${num(plot.y)}" width="${num(x1 - x0)}" height="${num(plot.height)}" fill="url(#${hatchId(args.kind, band.style)})" fill-opacity="0.8"/></g>`,
+    );
+    // Edges where a period starts or ends inside the plot (not where the plot clips it).
+    for (const x of [x0, x1]) {
+      const key = Math.round(x * 10);
+      if (edges.has(key) || x <= plot.x + 0.5 || x >= plot.x + plot.width - 0.5) continue;
+      edges.add(key);
+      parts.push(
+        `<line class="format-edge" x1="${num(x)}" y1="${num(plot.y - strip + 2)}" x2="${num(x)}" y2="${num(bottom)}" stroke="${CHART_COLOURS.muted}" stroke-width="1" stroke-dasharray="3 3"/>`,
+      );
+    }
+    requests.push({ x0, x1, label: band.label });
+  }
+  const y = plot.y - 6;
+  const labels = requests.map((r) => {
+    const spots: { x: number; anchor: "start" | "middle" | "end" }[] = [
+      { x: (r.x0 + r.x1) / 2, anchor: "middle" },
+      { x: r.x0 + 4, anchor: "start" },
+      { x: r.x1 - 4, anchor: "end" },
+    ];
+    return spots
+      .map((spot) => ({ ...spot, y, content: r.label }))
+      .filter((spot) => {
+        const box = textBox({ ...spot, size: MIN_FONT });
+        return box.x >= r.x0 + 2 && box.x + box.width <= r.x1 - 2;
+      })
+      .map((spot) => ({ boxes: [textBox({ ...spot, size: MIN_FONT })], value: spot }));
+  });
+  const placed = placeLabels({
+    labels,
+    bounds: { x: plot.x, y: plot.y - strip, width: plot.width, height: strip },
+    gap: 4,
+  });
+  for (const label of placed) {
+    if (label === null) continue;
+    args.obstacles.push(textBox({ ...label, size: MIN_FONT }));
+    parts.push(
+      text({ ...label, size: MIN_FONT, fill: CHART_COLOURS.ink, className: "band-label" }),
+    );
+  }
+  return parts;
 }

@@ -1,11 +1,13 @@
 /**
  * @module page-analysis
  * Everything a report page shows, computed once from a channel snapshot: the report and the
- * attention counts behind it (one `analyzeSnapshotDetailed` run), the weekly history, and an
- * optional compare of two periods. The caller picks the naming policy and renders.
+ * attention counts behind it (one `analyzeSnapshotDetailed` run), the weekly history, an
+ * optional compare of two periods, and the meeting formats compared (when the channel has format
+ * periods). The caller picks the naming policy and renders.
  */
 
 import { analyzeSnapshotDetailed } from "../../analysis/analyze-snapshot.js";
+import { compareFormats, type FormatsReport } from "../../analysis/compare-formats.js";
 import { type CompareReport, comparePeriods } from "../../analysis/compare-periods.js";
 import type { AttentionInput } from "../../domain/counts.js";
 import type { DateRange } from "../../domain/date-range.js";
@@ -19,6 +21,8 @@ export interface PageAnalysis {
   readonly attention: AttentionInput;
   readonly history: readonly WeeklyPoint[];
   readonly compare: CompareReport | null;
+  /** The formats compared up to the report's end; null when the channel has no format period. */
+  readonly formats: FormatsReport | null;
 }
 
 /** The report at `until` (default: the latest event), its history and an optional compare. */
@@ -41,5 +45,8 @@ export function analyzeForPage(
       ...(options.historyWeeks === undefined ? {} : { maxWeeks: options.historyWeeks }),
     }),
     compare: options.ranges ? comparePeriods(snapshot, settings, options.ranges) : null,
+    formats: (snapshot.formats ?? []).some((f) => f.at <= until)
+      ? compareFormats(snapshot, settings, { until })
+      : null,
   };
 }

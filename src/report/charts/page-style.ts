@@ -27,6 +27,11 @@ table.figures { border-collapse: collapse; margin: 8px 0 16px; width: 100%; max-
 table.figures th, table.figures td { text-align: left; vertical-align: top; padding: 6px 8px; border-bottom: 1px solid var(--rule); }
 table.figures th { font-weight: 600; width: 30%; min-width: 7em; }
 .detail { color: var(--muted); }
+table.formats { border-collapse: collapse; margin: 8px 0 16px; max-width: 860px; }
+table.formats caption { text-align: left; color: var(--muted); padding-bottom: 4px; }
+table.formats th, table.formats td { text-align: left; vertical-align: top; padding: 6px 10px 6px 0; border-bottom: 1px solid var(--rule); }
+table.formats thead th { font-weight: 600; }
+.scroll-x { overflow-x: auto; max-width: 100%; }
 .charts { display: grid; grid-template-columns: repeat(auto-fit, minmax(min(100%, 460px), 1fr)); gap: 24px; align-items: start; }
 figure { margin: 0 0 16px; }
 figure svg { display: block; max-width: 100%; height: auto; }
@@ -49,6 +54,10 @@ details.chart-table th, details.chart-table td { text-align: left; padding: 3px 
   table.figures th { width: auto; }
   table.figures th, table.figures td { display: block; padding: 2px 0; border: 0; }
   table.figures tr { display: block; padding: 6px 0; border-bottom: 1px solid var(--rule); }
+  table.formats thead { display: none; }
+  table.formats th, table.formats td { display: block; padding: 2px 0; border: 0; }
+  table.formats td::before { content: attr(data-label) ": "; color: var(--muted); }
+  table.formats tr { display: block; padding: 6px 0; border-bottom: 1px solid var(--rule); }
 }
 @media print {
   body { max-width: none; padding: 0; font-size: 11pt; }
