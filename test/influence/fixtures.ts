@@ -1,3 +1,4 @@
+import { EigenvalueDecomposition, Matrix } from "ml-matrix";
 /**
  * @module fixtures
  * Shared builders for the influence tests: seeded random count matrices and dense chains, a
@@ -144,4 +145,20 @@ export function quantile(sorted: readonly number[], p: number): number {
 export function interop<T>(module: { default: T }): T {
   const loose = module as unknown as { default?: T };
   return loose.default ?? (module as unknown as T);
+}
+
+/**
+ * Reference stationary vector of a row-stochastic dense matrix: ml-matrix's eigenvector of Tᵀ for
+ * the eigenvalue nearest 1 (EigenvalueDecomposition, a port of JAMA), scaled to sum 1.
+ */
+export function mlMatrixStationary(t: readonly (readonly number[])[]): number[] {
+  const evd = new EigenvalueDecomposition(new Matrix(t.map((row) => [...row])).transpose());
+  const re = evd.realEigenvalues;
+  let top = 0;
+  re.forEach((v, k) => {
+    if (Math.abs(v - 1) < Math.abs(re[top] - 1)) top = k;
+  });
+  const column = evd.eigenvectorMatrix.getColumn(top);
+  const total = column.reduce((a, b) => a + b, 0);
+  return column.map((v) => v / total);
 }
