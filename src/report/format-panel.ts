@@ -81,7 +81,7 @@ export function formatsSection(report: FormatsReport): string {
     const signals = short ? "–" : String(p.signals);
     return `<tr><th scope="row">${html(p.format)}</th><td>${html(`${isoDay(p.start)}..${until}`)}</td><td>${members}</td><td>${signals}</td><td>${html(counted)}</td></tr>`;
   });
-  const periodTable = `<details class="chart-table"><summary>Table: every format period</summary><div class="scroll-x"><table><thead><tr><th scope="col">format</th><th scope="col">dates</th><th scope="col">active members</th><th scope="col">replies and mentions</th><th scope="col">in the comparison</th></tr></thead><tbody>${periods.join("")}</tbody></table></div></details>`;
+  const periodTable = `<details class="chart-table"><summary>Table: every format period</summary><div class="scroll-x" tabindex="0" role="region" aria-label="every format period"><table><thead><tr><th scope="col">format</th><th scope="col">dates</th><th scope="col">active members</th><th scope="col">replies and mentions</th><th scope="col">in the comparison</th></tr></thead><tbody>${periods.join("")}</tbody></table></div></details>`;
   return [
     `<section id="formats"><h2>Meeting formats</h2>`,
     `<p class="detail">Each format period is read on its own, from the replies and mentions inside it; a format's figures are the mean of its periods, so one busy period does not decide. The bands on the week-by-week charts show when each format ran.</p>`,
