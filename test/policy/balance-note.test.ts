@@ -124,6 +124,35 @@ describe("evaluateBalanceNote", () => {
     });
     expect(verdict).toEqual({ due: false, reason: "insufficient", audience: null, next: state });
   });
+
+  it("any one sign of missing figures alone stops a note that would otherwise be due", () => {
+    // Found by mutation testing: the test above makes all four conditions true at once.
+    const due = makeReport({ share: 0.9, pAbove: 1 });
+    expect(evaluateBalanceNote({ report: due, state: null, now: T, notes: "channel" }).due).toBe(
+      true,
+    );
+    for (const report of [
+      { ...due, status: "no-unique-shares" as const },
+      { ...due, sufficient: false },
+      { ...due, line: null },
+      { ...due, top: null },
+    ]) {
+      const verdict = evaluateBalanceNote({ report, state: null, now: T, notes: "channel" });
+      expect(verdict).toMatchObject({ due: false, reason: "insufficient" });
+    }
+  });
+
+  it("a top share exactly at line − 0.05 does not re-arm (strictly below is needed)", () => {
+    const state: BalanceNoteState = { version: 1, armed: false, lastNoteAt: T - 30 * DAY_MS };
+    const at = makeReport({ share: 0.3 - REARM_MARGIN, pAbove: 0, threshold: 0.3 });
+    expect(evaluateBalanceNote({ report: at, state, now: T, notes: "channel" }).next.armed).toBe(
+      false,
+    );
+    const below = makeReport({ share: 0.3 - REARM_MARGIN - 1e-9, pAbove: 0, threshold: 0.3 });
+    expect(evaluateBalanceNote({ report: below, state, now: T, notes: "channel" }).next.armed).toBe(
+      true,
+    );
+  });
 });
 
 describe("parseBalanceNoteState", () => {
