@@ -212,30 +212,50 @@ export class Scheduler {
     }
     for (const slotAt of slots) {
       const period = digestPeriod(slotAt, settings.timezone);
-      const ref: SlotRef = { channel, kind: "digest", period };
-      try {
-        const held = await this.deps.store.getClaim(ref);
-        // Only an absent claim, or a "claimed" one whose holder's lease has ended, is open.
-        if (held !== null && !(held.status === "claimed" && held.leaseUntil < at)) continue;
-        if (at - slotAt >= LATE_LIMIT_MS) {
-          const recorded = await this.deps.store.recordMiss({
-            ...ref,
-            claimedBy: this.deps.replicaId,
-            now: this.deps.clock.now(),
-            leaseMs: 0,
-            reason: "too late",
-          });
-          if (recorded) this.missed(report, { ...ref, claimedBy: this.deps.replicaId }, "too-late");
-        } else if (await this.claim(ref, this.leaseMs, null)) {
-          await this.deliver(report, ref, slotAt, "channel", () =>
-            this.deps.composeDigest(channel, slotAt),
-          );
-        } else {
-          this.skip(report, ref, "claimed-elsewhere");
-        }
-      } catch (error) {
-        this.fail(report, ref, error);
+      await this.runSlot(report, { channel, kind: "digest", period }, at, {
+        dueAt: slotAt,
+        stale: at - slotAt >= LATE_LIMIT_MS,
+        compose: () => this.deps.composeDigest(channel, slotAt),
+      });
+    }
+  }
+
+  /**
+   * One due channel post: skipped unless its claim is open (absent, or "claimed" by a holder
+   * whose lease has ended); recorded as missed ("too late") when stale; else claimed, composed
+   * and delivered, then `onPosted`.
+   */
+  private async runSlot(
+    report: TickReport,
+    ref: SlotRef,
+    at: number,
+    post: {
+      readonly dueAt: number;
+      readonly stale: boolean;
+      readonly compose: () => Promise<OutgoingMessage | null>;
+      readonly onPosted?: () => Promise<void>;
+    },
+  ): Promise<void> {
+    try {
+      const held = await this.deps.store.getClaim(ref);
+      if (held !== null && !(held.status === "claimed" && held.leaseUntil < at)) return;
+      if (post.stale) {
+        const recorded = await this.deps.store.recordMiss({
+          ...ref,
+          claimedBy: this.deps.replicaId,
+          now: this.deps.clock.now(),
+          leaseMs: 0,
+          reason: "too late",
+        });
+        if (recorded) this.missed(report, { ...ref, claimedBy: this.deps.replicaId }, "too-late");
+      } else if (await this.claim(ref, this.leaseMs, null)) {
+        const posted = await this.deliver(report, ref, post.dueAt, "channel", post.compose);
+        if (posted) await post.onPosted?.();
+      } else {
+        this.skip(report, ref, "claimed-elsewhere");
       }
+    } catch (error) {
+      this.fail(report, ref, error);
     }
   }
 
@@ -250,28 +270,12 @@ export class Scheduler {
       return;
     }
     for (const post of posts) {
-      const ref: SlotRef = { channel, kind: "trial", period: post.period };
-      try {
-        const held = await this.deps.store.getClaim(ref);
-        if (held !== null && !(held.status === "claimed" && held.leaseUntil < at)) continue;
-        if (post.staleAt !== null && at >= post.staleAt) {
-          const recorded = await this.deps.store.recordMiss({
-            ...ref,
-            claimedBy: this.deps.replicaId,
-            now: this.deps.clock.now(),
-            leaseMs: 0,
-            reason: "too late",
-          });
-          if (recorded) this.missed(report, { ...ref, claimedBy: this.deps.replicaId }, "too-late");
-        } else if (await this.claim(ref, this.leaseMs, null)) {
-          const posted = await this.deliver(report, ref, post.dueAt, "channel", post.compose);
-          if (posted) await post.onPosted?.();
-        } else {
-          this.skip(report, ref, "claimed-elsewhere");
-        }
-      } catch (error) {
-        this.fail(report, ref, error);
-      }
+      await this.runSlot(report, { channel, kind: "trial", period: post.period }, at, {
+        dueAt: post.dueAt,
+        stale: post.staleAt !== null && at >= post.staleAt,
+        compose: post.compose,
+        ...(post.onPosted === undefined ? {} : { onPosted: post.onPosted }),
+      });
     }
   }
 
