@@ -122,4 +122,56 @@ describe("report frame", () => {
     expect(round6(Number.NaN)).toBeNaN();
     expect(round6(Number.POSITIVE_INFINITY)).toBe(Number.POSITIVE_INFINITY);
   });
+
+  it("equal P(share ≥ line): the line names the largest share; P = confidence counts as crossed", () => {
+    // Two blocks (report-closed-forms.test.ts: s = 0.2 for a, b, c and 0.1 for d–g, derived there).
+    const pairs: [string, string, number][] = [];
+    const X = ["a", "b", "c"];
+    const Y = ["d", "e", "f", "g"];
+    for (const u of X) {
+      for (const v of X) if (u !== v) pairs.push([u, v, 8]);
+      for (const v of Y) pairs.push([u, v, 1]);
+    }
+    for (const u of Y) {
+      for (const v of Y) if (u !== v) pairs.push([u, v, 7]);
+      for (const v of X) pairs.push([u, v, 3]);
+    }
+    // Line 0.05: every member is above it with P = 1 (no draws), so the tie goes to the share.
+    const report = analyzeSnapshot(snapshotOf(mentionEvents(pairs)), {
+      ...exact,
+      threshold: 0.05,
+      confidence: 1,
+    });
+    expect(report.sufficient).toBe(true);
+    expect(report.needed).toBeNull();
+    expect(report.line).toEqual({ threshold: 0.05, crossed: true, member: "a", probability: 1 });
+  });
+
+  it("two closed groups kept together by the prior: figures, but no consensus in the data", () => {
+    // Two triangles that never attend to each other; background 1 joins them (DESIGN.md §4.4).
+    const tri = (m: string[]): [string, string, number][] =>
+      m.flatMap((u) => m.filter((v) => v !== u).map((v) => [u, v, 5] as [string, string, number]));
+    const report = analyzeSnapshot(
+      snapshotOf(mentionEvents([...tri(["a", "b", "c"]), ...tri(["d", "e", "f"])])),
+      { ...exact, background: 1 },
+    );
+    expect(report.status).toBe("ok");
+    expect(report.consensus?.closedGroups).toBe(2);
+    expect(report.consensus?.secondEigenvalue).toBeLessThan(1 - 1e-6);
+    expect(report.consensus?.reached).toBe(false);
+  });
+
+  it("labels take the place of clusters: with groups labelled, no clusters even when asked for", () => {
+    const events = mentionEvents(even3);
+    ["a", "b", "c"].forEach((m, k) => {
+      events.push({ type: "group", at: T0 - 1000 + k, channel: "c1", member: m, group: "all" });
+    });
+    const report = analyzeSnapshot(snapshotOf(events.sort((x, y) => x.at - y.at)), {
+      ...exact,
+      clusters: true,
+    });
+    expect(report.groups?.map((g) => [g.group, g.members])).toEqual([["all", 3]]);
+    expect(report.groups?.[0].share).toBeCloseTo(1, 6);
+    expect(report.clusters).toBeNull();
+  });
 });
