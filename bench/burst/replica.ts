@@ -40,13 +40,38 @@ const env = (name: string): string => {
 };
 
 let statements = 0;
+/** Wall ms from each statement's call to its answer (promise form; statements may overlap). */
+let sqlMs = 0;
 const originalQuery = pg.Client.prototype.query;
 // biome-ignore lint/suspicious/noExplicitAny: a counting wrapper around pg's overloaded query.
 (pg.Client.prototype as any).query = function counted(this: pg.Client, ...args: unknown[]) {
   statements++;
+  const started = performance.now();
   // biome-ignore lint/suspicious/noExplicitAny: forwards pg's own overloads untouched.
-  return (originalQuery as any).apply(this, args);
+  const result = (originalQuery as any).apply(this, args);
+  if (result !== undefined && typeof result.then === "function") {
+    result.then(
+      () => {
+        sqlMs += performance.now() - started;
+      },
+      () => {
+        sqlMs += performance.now() - started;
+      },
+    );
+  }
+  return result;
 };
+/** Wall ms inside analyses and inside Slack calls. */
+let analysisMs = 0;
+let slackMs = 0;
+async function timed<T>(work: () => Promise<T>, add: (ms: number) => void): Promise<T> {
+  const started = performance.now();
+  try {
+    return await work();
+  } finally {
+    add(performance.now() - started);
+  }
+}
 
 const replicaId = env("BURST_REPLICA");
 const leaseMs = Number(env("BURST_LEASE_MS"));
@@ -73,7 +98,12 @@ const queue = new SendQueue({
 const platform = new SlackPlatform({
   chat: {
     postMessage: (args) =>
-      client.chat.postMessage(args as unknown as webApi.ChatPostMessageArguments),
+      timed(
+        () => client.chat.postMessage(args as unknown as webApi.ChatPostMessageArguments),
+        (ms) => {
+          slackMs += ms;
+        },
+      ),
     postEphemeral: (args) =>
       client.chat.postEphemeral(args as unknown as webApi.ChatPostEphemeralArguments),
     update: (args) => client.chat.update(args as unknown as webApi.ChatUpdateArguments),
@@ -94,7 +124,12 @@ const platform = new SlackPlatform({
 const samples = Number(env("BURST_SAMPLES"));
 const analysis: AnalysisRunner = {
   run: (job, options) =>
-    inThreadRunner.run({ ...job, settings: { ...job.settings, samples } }, options),
+    timed(
+      () => inThreadRunner.run({ ...job, settings: { ...job.settings, samples } }, options),
+      (ms) => {
+        analysisMs += ms;
+      },
+    ),
 };
 
 let posted = 0;
@@ -116,12 +151,22 @@ const bot = createBot({
   },
 });
 
+let cpuAtGo = process.cpuUsage();
+/** CPU ms (user + system, every thread of the process) since "go". */
+const cpuMs = () => {
+  const used = process.cpuUsage(cpuAtGo);
+  return (used.user + used.system) / 1000;
+};
 const status = () =>
   process.stdout.write(
     `${JSON.stringify({
       replica: replicaId,
       maxRssKb: process.resourceUsage().maxRSS,
       statements,
+      sqlMs,
+      analysisMs,
+      slackMs,
+      cpuMs: cpuMs(),
       posted,
       failed,
       missed,
@@ -132,6 +177,9 @@ process.stdout.write(`${JSON.stringify({ replica: replicaId, ready: true })}\n`)
 await new Promise<void>((resolve) => process.stdin.once("data", () => resolve()));
 process.stdin.pause();
 startedReal = Date.now();
+statements = 0;
+sqlMs = 0;
+cpuAtGo = process.cpuUsage();
 const statusTimer = setInterval(status, 500);
 
 let stopping = false;
