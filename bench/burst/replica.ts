@@ -27,6 +27,8 @@ import { SendQueue } from "../../adapters/slack/send-queue.js";
 import { retryAfterOf } from "../../adapters/slack/slack-adapter.js";
 import { SlackPlatform } from "../../adapters/slack/slack-platform.js";
 import { inThreadRunner } from "../../src/analysis/analysis-job.js";
+import { AnalysisQueue } from "../../src/analysis/analysis-queue.js";
+import { WorkerPool } from "../../src/analysis/worker-pool.js";
 import { DAY_MS } from "../../src/domain/settings.js";
 import type { AnalysisRunner } from "../../src/ports/analysis-runner.js";
 import type { Clock } from "../../src/ports/clock.js";
@@ -122,10 +124,19 @@ const platform = new SlackPlatform({
 });
 
 const samples = Number(env("BURST_SAMPLES"));
+/** 0: analyses in this thread; N: a pool of N worker threads behind the queue, as `serve` has. */
+const workers = Number(process.env.BURST_WORKERS ?? "0");
+const jobs = Number(process.env.BURST_JOBS ?? "1");
+const pool = workers > 0 ? new WorkerPool({ size: workers, threads: "always" }) : null;
+pool?.warm();
+const runner: AnalysisRunner =
+  pool === null
+    ? inThreadRunner
+    : new AnalysisQueue({ runner: pool, capacity: 4 * pool.size, now: () => clock.now() });
 const analysis: AnalysisRunner = {
   run: (job, options) =>
     timed(
-      () => inThreadRunner.run({ ...job, settings: { ...job.settings, samples } }, options),
+      () => runner.run({ ...job, settings: { ...job.settings, samples } }, options),
       (ms) => {
         analysisMs += ms;
       },
@@ -148,6 +159,7 @@ const bot = createBot({
   scheduling: {
     leaseMs,
     lookbackMs: DAY_MS,
+    jobs,
   },
 });
 
@@ -199,5 +211,6 @@ while (!stopping) {
 }
 clearInterval(statusTimer);
 status();
+await pool?.close();
 await store.close();
 process.exit(0);

@@ -62,6 +62,12 @@ const runsWanted = option("runs", "1,2,3,3k").split(",");
 const samples = Number(option("samples", "40"));
 const templates = Number(option("patterns", "50"));
 const workspacePerMinute = Number(option("workspace-per-minute", "300"));
+/** Worker threads per replica (0: analyses in the replica's own thread) and scheduler jobs. */
+const workers = Number(option("workers", "0"));
+const jobs = Number(option("jobs", "1"));
+if (!(Number.isInteger(workers) && workers >= 0 && Number.isInteger(jobs) && jobs >= 1)) {
+  throw new Error("--workers must be a whole number ≥ 0 and --jobs ≥ 1");
+}
 if (
   !(Number.isInteger(channelsWanted) && channelsWanted > 0 && leaseMs > 0 && capMs > 0) ||
   !(Number.isInteger(samples) && samples >= 0 && workspacePerMinute > 0)
@@ -298,6 +304,8 @@ function startReplica(id: string, slackUrl: string, statuses: Map<string, Replic
       BURST_BASE: String(BASE),
       BURST_ID_KEY: ID_KEY,
       BURST_SAMPLES: String(samples),
+      BURST_WORKERS: String(workers),
+      BURST_JOBS: String(jobs),
     },
     stdio: ["pipe", "pipe", "inherit"],
   });
@@ -605,7 +613,7 @@ async function main(): Promise<void> {
     }
     console.log("");
     console.log(
-      `Burst: ${channels.length} channels, digests due Monday 09:00 UTC, lease ${leaseMs / 1000} s, ${samples} draws per analysis, Slack faked at 1 post/s per channel and ${workspacePerMinute} posts/min per workspace`,
+      `Burst: ${channels.length} channels, digests due Monday 09:00 UTC, lease ${leaseMs / 1000} s, ${samples} draws per analysis (the product's default: 400), ${workers === 0 ? "analyses in each replica's own thread" : `${workers} analysis worker(s) per replica`}, ${jobs} scheduler job(s) at once per replica, Slack faked at 1 post/s per channel and ${workspacePerMinute} posts/min per workspace`,
     );
     console.log(
       `${new Date().toISOString()}, commit ${commitId()}, ${availableParallelism()} cores, load average at the end ${loadavg()
