@@ -174,7 +174,7 @@ function processCpuMs(pid: number): number | null {
 }
 
 /**
- * CPU used by the PostgreSQL backends serving this database (the replicas' connections), sampled
+ * CPU used by the PostgreSQL backends of the replicas' connections (application_name burst-rN), sampled
  * on each poll from pg_stat_activity and /proc: a backend's last sample counts, less its CPU at
  * the start of the run. The last < 250 ms of a backend that closes between polls is not counted.
  */
@@ -184,7 +184,7 @@ class BackendCpu {
   constructor(private readonly monitor: pg.Client) {}
   async sample(first = false): Promise<void> {
     const { rows } = await this.monitor.query<{ pid: number }>(
-      "SELECT pid FROM pg_stat_activity WHERE datname = current_database() AND pid <> pg_backend_pid() AND backend_type = 'client backend'",
+      "SELECT pid FROM pg_stat_activity WHERE datname = current_database() AND application_name LIKE 'burst-r%'",
     );
     for (const { pid } of rows) {
       const ms = processCpuMs(pid);
@@ -296,7 +296,8 @@ function startReplica(id: string, slackUrl: string, statuses: Map<string, Replic
   const child = spawn(process.execPath, ["--import", "tsx", join(here, "replica.ts")], {
     env: {
       ...process.env,
-      DATABASE_URL: PG_URL,
+      // Named, so the bench counts the CPU of this replica's PostgreSQL backends and no others.
+      DATABASE_URL: `${PG_URL}${PG_URL.includes("?") ? "&" : "?"}application_name=burst-${id}`,
       BURST_SCHEMA: schema,
       BURST_REPLICA: id,
       BURST_LEASE_MS: String(leaseMs),
