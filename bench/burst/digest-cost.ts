@@ -37,7 +37,11 @@ const idKey = `burst-${createHash("sha256").update(schema).digest("hex").slice(0
 
 const store = await openStore(url, { idKey, schema });
 try {
-  const channels = (await store.listChannels()).map((c) => c.channel).slice(0, take);
+  const only = option("channel", "");
+  const channels =
+    only !== ""
+      ? [only]
+      : (await store.listChannels()).map((c) => c.channel).slice(0, take);
   console.log(
     `digest analyses on ${channels.length} channels of ${schema}; ${new Date().toISOString()}, ${availableParallelism()} cores, load ${loadavg()
       .map((l) => l.toFixed(2))

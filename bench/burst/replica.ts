@@ -10,14 +10,18 @@
  * line on stdin before its first pass, so the burst is timed from the due minute with every replica
  * already running (as in production), not from process start-up.
  *
- * Analyses run in the replica's own thread (one core per replica, as `serve` with one worker) with
- * BURST_SAMPLES posterior draws (the bench's channels' analysis setting: the product default of
- * 400 draws costs seconds per digest on this machine, far too long for 4 × 1,000 digests).
+ * Analyses run with BURST_SAMPLES posterior draws (the product default of 400 costs seconds per
+ * digest on this machine, far too long for 4 × 1,000 digests), in the replica's own thread when
+ * BURST_WORKERS is 0 (the default), else on a pool of that many worker threads behind the bounded
+ * queue, as `serve` runs them. BURST_JOBS is the scheduler's channels at once (default 1). The
+ * status line also carries, since "go", the process's CPU ms (every thread) and the wall ms spent
+ * awaiting SQL statements, analyses and Slack calls.
  * Channels whose digest failed to compose (an exception, e.g. in the model) are listed in the
  * status line with their error, so the bench can tell a stuck job from a slow one.
  *
  * Environment: BURST_SCHEMA, BURST_REPLICA, BURST_LEASE_MS, BURST_SLACK_URL, BURST_BASE (the
- * simulated epoch ms at process start), BURST_ID_KEY, BURST_SAMPLES, DATABASE_URL.
+ * simulated epoch ms at process start), BURST_ID_KEY, BURST_SAMPLES, BURST_WORKERS, BURST_JOBS,
+ * DATABASE_URL.
  */
 import { webApi } from "@slack/bolt";
 import pg from "pg";

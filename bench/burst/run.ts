@@ -22,7 +22,13 @@
  * --patterns P (default 50): that many channels are seeded through ingestion, the others are
  * SQL copies of them (channel i has pattern i mod P), since ingesting 1,000 channels takes more
  * than an hour on this machine.
- * The schema is dropped at the end, also after a failure or Ctrl-C.
+ * --workers N (analysis threads per replica, default 0: in the replica's thread), --jobs N (the
+ * scheduler's channels at once, default 1). --schema plumbline_burst_NAME names the schema (and
+ * fixes the store's id key by it); --seed-only seeds it and keeps it; --reuse runs on a kept one
+ * without seeding (so each run can be its own invocation inside the bench lock); --keep keeps it.
+ * A second table says where each run's time went (CPU of replicas, their PostgreSQL backends and
+ * the bench; waits per digest).
+ * The schema is dropped at the end, also after a failure or Ctrl-C, unless kept.
  */
 import { type ChildProcess, execFileSync, spawn } from "node:child_process";
 import { createHash, randomBytes } from "node:crypto";
