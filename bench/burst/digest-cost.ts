@@ -39,9 +39,7 @@ const store = await openStore(url, { idKey, schema });
 try {
   const only = option("channel", "");
   const channels =
-    only !== ""
-      ? [only]
-      : (await store.listChannels()).map((c) => c.channel).slice(0, take);
+    only !== "" ? [only] : (await store.listChannels()).map((c) => c.channel).slice(0, take);
   console.log(
     `digest analyses on ${channels.length} channels of ${schema}; ${new Date().toISOString()}, ${availableParallelism()} cores, load ${loadavg()
       .map((l) => l.toFixed(2))
