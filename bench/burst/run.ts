@@ -333,13 +333,22 @@ function startReplica(id: string, slackUrl: string, statuses: Map<string, Replic
   return child;
 }
 
-function commitId(): string {
+/** The commit the bench started from (read at start: commits made during a run do not count). */
+const startCommit = (() => {
   try {
-    return execFileSync("git", ["rev-parse", "--short", "HEAD"], { cwd: here }).toString().trim();
+    const head = execFileSync("git", ["rev-parse", "--short", "HEAD"], { cwd: here })
+      .toString()
+      .trim();
+    const dirty = execFileSync("git", ["status", "--porcelain", "--untracked-files=no"], {
+      cwd: here,
+    })
+      .toString()
+      .trim();
+    return dirty === "" ? head : `${head} + uncommitted changes`;
   } catch {
     return "unknown";
   }
-}
+})();
 
 const sleep = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
 
@@ -623,7 +632,7 @@ async function main(): Promise<void> {
       `Burst: ${channels.length} channels, digests due Monday 09:00 UTC, lease ${leaseMs / 1000} s, ${samples} draws per analysis (the product's default: 400), ${workers === 0 ? "analyses in each replica's own thread" : `${workers} analysis worker(s) per replica`}, ${jobs} scheduler job(s) at once per replica, Slack faked at 1 post/s per channel and ${workspacePerMinute} posts/min per workspace`,
     );
     console.log(
-      `${new Date().toISOString()}, commit ${commitId()}, ${availableParallelism()} cores, load average at the end ${loadavg()
+      `${new Date().toISOString()}, commit ${startCommit}, ${availableParallelism()} cores, load average at the end ${loadavg()
         .map((l) => l.toFixed(2))
         .join(" ")}`,
     );
