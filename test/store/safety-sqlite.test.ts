@@ -1,6 +1,6 @@
 /**
- * Issue 11's store findings on SQLite files: the shared safety suite, plus what only a file can
- * show — the key file beside the database (missing → refused, generated only for an empty store),
+ * Issue 11's store findings on SQLite files: what only a file can show (the shared safety suite
+ * runs on SQLite in safety-sqlite-contract.test.ts) — the key file beside the database (missing → refused, generated only for an empty store),
  * every byte of the database, WAL and shared-memory files after `leave` (secure_delete,
  * sqlite.org/pragma.html#pragma_secure_delete), a read-only file, and STORE_FULL's count.
  */
@@ -24,37 +24,11 @@ import type { ChatEvent } from "../../src/domain/events.js";
 import { leave } from "../../src/ingest/erase.js";
 import { type Delivery, ingest, ingestBatch } from "../../src/ingest/ingest.js";
 import { openSqliteStore, openStore } from "../../src/store/open-store.js";
-import { safetyContract } from "./safety-contract.js";
 import { TEST_KEY } from "./test-key.js";
 
 const dir = mkdtempSync(join(tmpdir(), "plumbline-safety-"));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
-let n = 0;
 const T0 = Date.UTC(2026, 10, 2, 9, 0, 0);
-
-function dumpFile(path: string): string {
-  const raw = new Database(path, { readonly: true });
-  try {
-    const tables = raw.prepare("SELECT name FROM sqlite_master WHERE type = 'table'").all() as {
-      name: string;
-    }[];
-    return tables
-      .map((t) => `${t.name}: ${JSON.stringify(raw.prepare(`SELECT * FROM "${t.name}"`).all())}`)
-      .join("\n");
-  } finally {
-    raw.close();
-  }
-}
-
-safetyContract("sqlite file", async () => {
-  const path = join(dir, `safety-${n++}.db`);
-  return {
-    childArgs: ["sqlite", path],
-    open: (options) => openSqliteStore(path, options),
-    dump: async () => dumpFile(path),
-    cleanup: async () => undefined,
-  };
-});
 
 function io(env: Record<string, string | undefined> = {}) {
   const out: string[] = [];
