@@ -24,6 +24,7 @@ import type { ChatEvent } from "../../src/domain/events.js";
 import { leave } from "../../src/ingest/erase.js";
 import { type Delivery, ingest, ingestBatch } from "../../src/ingest/ingest.js";
 import { openSqliteStore, openStore } from "../../src/store/open-store.js";
+import { makeConsent } from "../attention/ledger-builders.js";
 import { TEST_KEY } from "./test-key.js";
 
 const dir = mkdtempSync(join(tmpdir(), "plumbline-safety-"));
@@ -48,17 +49,9 @@ function writeLog(name: string, events: readonly ChatEvent[]): string {
   return name;
 }
 
-const consent = (member: string, at = T0): ChatEvent => ({
-  type: "consent",
-  at,
-  channel: "c1",
-  member,
-  level: "counted",
-});
-
 describe("SQLite key file", () => {
   it("a deleted key file is refused (exit 2) naming the file; restoring it works again", async () => {
-    const log = writeLog("a.jsonl", [consent("U1"), consent("U2")]);
+    const log = writeLog("a.jsonl", [makeConsent("U1", "counted"), makeConsent("U2", "counted")]);
     const first = io({});
     expect(await main(["ingest", log, "--db", "sqlite:./k.db"], first.io)).toBe(0);
     const keyFile = join(dir, "k.db.key");
@@ -83,7 +76,7 @@ describe("SQLite key file", () => {
   });
 
   it("a different PLUMBLINE_ID_KEY_FILE is refused naming that file", async () => {
-    const log = writeLog("b.jsonl", [consent("U1")]);
+    const log = writeLog("b.jsonl", [makeConsent("U1", "counted")]);
     expect(await main(["ingest", log, "--db", "sqlite:./f.db"], io({}).io)).toBe(0);
     writeFileSync(join(dir, "wrong.key"), `${TEST_KEY}-wrong\n`);
     const run = io({ PLUMBLINE_ID_KEY_FILE: "wrong.key" });
@@ -93,7 +86,9 @@ describe("SQLite key file", () => {
   });
 
   it("plumbline rekey rotates the key file; the old key is refused and every event still seen", async () => {
-    const events = Array.from({ length: 40 }, (_, i) => consent(`U${i}`, T0 + i));
+    const events: ChatEvent[] = Array.from({ length: 40 }, (_, i) =>
+      makeConsent(`U${i}`, "counted", { at: T0 + i }),
+    );
     events.push({
       type: "message",
       at: T0 + 100,
@@ -128,7 +123,7 @@ describe("serve and the id key", () => {
   it("serve refuses to start with a key other than the store's, naming the variable", async () => {
     const db = join(dir, "serve.db");
     const store = await openSqliteStore(db, { idKey: TEST_KEY });
-    await ingest(store, consent("U1"), "k1");
+    await ingest(store, makeConsent("U1", "counted"), "k1");
     await store.close();
     const env = {
       DATABASE_URL: `sqlite:${db}`,
@@ -210,7 +205,7 @@ describe("SQLite clear errors", () => {
   it("a read-only database gives STORE_READ_ONLY naming the file (ingest and analyze --db)", async () => {
     const path = join(dir, "ro", "ro.db");
     const store = await openStore(`sqlite:${path}`, { idKey: TEST_KEY });
-    await ingest(store, consent("U1"), "k1");
+    await ingest(store, makeConsent("U1", "counted"), "k1");
     await store.close();
     chmodSync(path, 0o444);
     chmodSync(join(dir, "ro"), 0o555);
@@ -240,7 +235,7 @@ describe("SQLite clear errors", () => {
     const path = join(dir, "full.db");
     const store = await openSqliteStore(path, { idKey: TEST_KEY });
     const members = Array.from({ length: 20 }, (_, i) => `U${i}`);
-    for (const m of members) await ingest(store, consent(m), `c-${m}`);
+    for (const m of members) await ingest(store, makeConsent(m, "counted"), `c-${m}`);
     const [{ page_count: pages }] = store.pragma("page_count") as { page_count: number }[];
     store.pragma(`max_page_count = ${pages + 40}`);
     const deliveries: Delivery[] = Array.from({ length: 5000 }, (_, i) => ({
