@@ -83,7 +83,7 @@ export class LineSplitter {
       this.rest = "";
       this.onLine(first);
       start = end + 1;
-      while ((end = chunk.indexOf("\n", start)) !== -1) {
+      for (end = chunk.indexOf("\n", start); end !== -1; end = chunk.indexOf("\n", start)) {
         this.onLine(chunk.slice(start, end));
         start = end + 1;
       }
