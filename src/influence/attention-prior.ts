@@ -398,7 +398,8 @@ export function logDirichletMultinomial(x: ArrayLike<number>, a: ArrayLike<numbe
  * without the multinomial coefficient (it does not depend on α). Unobserved cells cancel.
  */
 function rowLogLikelihood(
-  counts: CountMatrix,
+  rowPtr: Int32Array,
+  colIdx: Int32Array,
   effective: Float64Array,
   i: number,
   total: number,
@@ -409,11 +410,96 @@ function rowLogLikelihood(
 ): number {
   const scale = alpha / (1 - profile[base + i]);
   let sum = logGammaAlpha - logGamma(total + alpha);
-  for (let k = counts.rowPtr[i]; k < counts.rowPtr[i + 1]; k++) {
-    const a = scale * profile[base + counts.colIdx[k]];
+  for (let k = rowPtr[i]; k < rowPtr[i + 1]; k++) {
+    const a = scale * profile[base + colIdx[k]];
     sum += logGamma(effective[k] + a) - logGamma(a);
   }
   return sum;
+}
+
+/**
+ * What the strength posterior of the rows needs in one pass (typed arrays only, so it crosses to
+ * worker threads): the rows' effective counts and totals, the strength grid with lnΓ(α) and ln α
+ * of each point, and each group's profile.
+ */
+export interface StrengthRowsTask {
+  readonly n: number;
+  readonly rowPtr: Int32Array;
+  readonly colIdx: Int32Array;
+  readonly effective: Float64Array;
+  readonly rowTotals: Float64Array;
+  readonly grid: Float64Array;
+  readonly logGammaGrid: Float64Array;
+  readonly logOfGrid: Float64Array;
+  readonly profile: Float64Array;
+  readonly profileOf: Int32Array;
+}
+
+/**
+ * Computes every row of `task` into `cumulative` (n × grid) and `strength` (n) elsewhere (the
+ * CLI: over the worker pool, by `strengthRows` on ranges of rows, so the same numbers); false
+ * when it cannot, and the rows are computed here.
+ */
+export type StrengthRowsRunner = (
+  task: StrengthRowsTask,
+  cumulative: Float64Array,
+  strength: Float64Array,
+) => boolean;
+
+/**
+ * Rows [from, to) of one pass: each row's posterior over the strength grid (its Pólya likelihood
+ * at every grid point, log-sum-exp), as cumulative weights at `cumulative[i·G + g]`, and α_i, its
+ * geometric posterior mean, at `strength[i]`. Rows are independent, so ranges can be computed
+ * anywhere in any order with the same result.
+ */
+export function strengthRows(
+  task: StrengthRowsTask,
+  from: number,
+  to: number,
+  cumulative: Float64Array,
+  strength: Float64Array,
+): void {
+  const { n, rowPtr, colIdx, effective, rowTotals, grid, logGammaGrid, logOfGrid, profile } = task;
+  const G = grid.length;
+  const logs = new Float64Array(G);
+  for (let i = from; i < to; i++) {
+    const base = task.profileOf[i] * n;
+    let max = Number.NEGATIVE_INFINITY;
+    for (let g = 0; g < G; g++) {
+      // A silent row's likelihood is flat: its posterior is the grid prior.
+      const log =
+        rowTotals[i] > 0
+          ? rowLogLikelihood(
+              rowPtr,
+              colIdx,
+              effective,
+              i,
+              rowTotals[i],
+              grid[g],
+              logGammaGrid[g],
+              profile,
+              base,
+            )
+          : 0;
+      logs[g] = log;
+      if (log > max) max = log;
+    }
+    let total = 0;
+    let logMean = 0;
+    for (let g = 0; g < G; g++) {
+      const w = Math.exp(logs[g] - max);
+      logs[g] = w;
+      total += w;
+      logMean += w * logOfGrid[g];
+    }
+    let running = 0;
+    for (let g = 0; g < G; g++) {
+      running += logs[g] / total;
+      cumulative[i * G + g] = running;
+    }
+    cumulative[i * G + G - 1] = 1;
+    strength[i] = Math.exp(logMean / total);
+  }
 }
 
 /**
@@ -425,6 +511,7 @@ export function buildAttentionPrior(
   counts: CountMatrix,
   background: Background,
   groupOf?: Int32Array,
+  strengthRowsElsewhere?: StrengthRowsRunner,
 ): AttentionPrior {
   checkBackground(background);
   const n = counts.members.length;
@@ -447,56 +534,33 @@ export function buildAttentionPrior(
   strength.fill(G === 1 ? grid[0] : Math.sqrt(grid[0] * grid[G - 1]));
   let posterior: ProfilePosterior | null = null;
   const passes = G === 1 ? 1 : PRIOR_DEFAULTS.passes;
-  const logs = new Float64Array(G);
-  // lnΓ(α) of each grid point, the same for every row.
+  // lnΓ(α) and ln α of each grid point, the same for every row.
   const logGammaGrid = G === 1 ? new Float64Array(1) : grid.map(logGamma);
+  const logOfGrid = grid.map(Math.log);
   for (let pass = 0; pass < passes; pass++) {
     posterior = profilePosterior(
       receivedCounts(counts, effective, rowTotals, strength, groupIndex, groups),
       n,
       groups,
     );
-    const profile = posterior.profile;
-    for (let i = 0; i < n; i++) {
-      if (G === 1) {
-        cumulative[i] = 1;
-        continue;
-      }
-      const base = groupIndex[i] * n;
-      let max = Number.NEGATIVE_INFINITY;
-      for (let g = 0; g < G; g++) {
-        // A silent row's likelihood is flat: its posterior is the grid prior.
-        const log =
-          rowTotals[i] > 0
-            ? rowLogLikelihood(
-                counts,
-                effective,
-                i,
-                rowTotals[i],
-                grid[g],
-                logGammaGrid[g],
-                profile,
-                base,
-              )
-            : 0;
-        logs[g] = log;
-        if (log > max) max = log;
-      }
-      let total = 0;
-      let logMean = 0;
-      for (let g = 0; g < G; g++) {
-        const w = Math.exp(logs[g] - max);
-        logs[g] = w;
-        total += w;
-        logMean += w * Math.log(grid[g]);
-      }
-      let running = 0;
-      for (let g = 0; g < G; g++) {
-        running += logs[g] / total;
-        cumulative[i * G + g] = running;
-      }
-      cumulative[i * G + G - 1] = 1;
-      strength[i] = Math.exp(logMean / total);
+    if (G === 1) {
+      cumulative.fill(1);
+      continue;
+    }
+    const task: StrengthRowsTask = {
+      n,
+      rowPtr: counts.rowPtr,
+      colIdx: counts.colIdx,
+      effective,
+      rowTotals,
+      grid,
+      logGammaGrid,
+      logOfGrid,
+      profile: posterior.profile,
+      profileOf: groupIndex,
+    };
+    if (!(strengthRowsElsewhere?.(task, cumulative, strength) ?? false)) {
+      strengthRows(task, 0, n, cumulative, strength);
     }
   }
   if (posterior === null) throw new Error("unreachable: no prior pass ran");
