@@ -5,7 +5,15 @@
  * their counts (hits/total), so the binomial error is visible; bias and shrinkage in points of
  * share, bias with its standard error.
  */
-import { type CellSummary, FLOOR, GOAL, type Rate, rateOf } from "./summarize-cell.js";
+import {
+  type CellSummary,
+  FLOOR,
+  GOAL,
+  pooledLeaderBySize,
+  type Rate,
+  rateOf,
+  wilsonInterval,
+} from "./summarize-cell.js";
 
 const HEADER = [
   "regime",
@@ -16,6 +24,7 @@ const HEADER = [
   "coverage",
   "below/above",
   "leader inside",
+  "leader 95% CI",
   "bias pts",
   "shrink pts",
   "false notes",
@@ -28,6 +37,13 @@ function pct(rate: Rate): string {
   const p = rateOf(rate);
   if (p === null) return "—";
   return `${(100 * p).toFixed(0)}% (${rate.hits}/${rate.total})`;
+}
+
+/** The Wilson 95% interval of a rate in whole percent, e.g. "72–93%"; "—" when empty. */
+function wilsonText(rate: Rate): string {
+  const ci = wilsonInterval(rate);
+  if (ci === null) return "—";
+  return `${(100 * ci.low).toFixed(0)}–${(100 * ci.high).toFixed(0)}%`;
 }
 
 function signed(x: number, digits: number): string {
@@ -46,6 +62,7 @@ function cells(s: CellSummary): string[] {
     pct(s.coverage),
     misses > 0 ? `${s.below}/${s.above}` : "0/0",
     s.leaderInside.total > 0 ? `${pct(s.leaderInside)} ${s.leaderBelow}/${s.leaderAbove}` : "—",
+    wilsonText(s.leaderInside),
     s.bias === null
       ? "—"
       : `${signed(s.bias.points, 1)} ±${Number.isFinite(s.bias.se) ? s.bias.se.toFixed(1) : "?"}`,
@@ -73,10 +90,27 @@ export function totalsLine(summaries: readonly CellSummary[]): string {
   return `calibrate: ${floor} of ${summaries.length} cells meet the floor, ${goal} reach the goal${byItem ? ` (cells missing: ${byItem})` : ""}`;
 }
 
+/**
+ * One line per size and decay setting: the leader rate of all its leader cells pooled, with its
+ * Wilson 95% interval and the misses below/above. Empty when no cell has leader channels.
+ */
+export function pooledLeaderLines(summaries: readonly CellSummary[]): string[] {
+  const pooled = pooledLeaderBySize(summaries);
+  if (pooled.length === 0) return [];
+  return [
+    `leader inside, pooled over N/n and the two leader regimes (floor ${100 * FLOOR.leaderInside}%, nominal 90%):`,
+    ...pooled.map(
+      (p) =>
+        `  n = ${p.n}, ${p.decay}: ${pct(p.inside)}, 95% CI ${wilsonText(p.inside)}, misses ${p.below} below / ${p.above} above, ${p.cells} cells`,
+    ),
+  ];
+}
+
 export const LEGEND = [
   `coverage: member-intervals holding the true share (all members; the goal is ${100 * GOAL.low}–${100 * GOAL.high}%, the floor ${100 * FLOOR.coverage}%).`,
   "below/above: member-intervals lying wholly below / above the true share.",
   `leader inside: leader channels whose leader's interval holds the designed share (floor ${100 * FLOOR.leaderInside}%), then below/above.`,
+  "leader 95% CI: Wilson's score interval of the leader rate (Wilson 1927, JASA 22:209–212): the verdict compares the measured rate with the floor; a cell whose interval holds 85% is within binomial noise of it either way.",
   `bias pts: mean reported leader share minus the truth, in points of share, ± its standard error (floor |bias| ≤ ${FLOOR.biasPoints} once N/n ≥ ${FLOOR.biasFromRatio}).`,
   "shrink pts: the model's point estimate at the expected counts (no noise, no decay) minus the truth: the prior's pull alone.",
   `false notes: channels whose true top ≤ line − 0.05 that got a note (floor < ${100 * FLOOR.falseNotes}%).`,
@@ -101,6 +135,7 @@ export function textTable(summaries: readonly CellSummary[]): string {
     ...LEGEND,
     "",
     totalsLine(summaries),
+    ...pooledLeaderLines(summaries),
   ].join("\n");
 }
 
@@ -112,5 +147,7 @@ export function markdownTable(summaries: readonly CellSummary[]): string {
     ...summaries.map((s) => row(cells(s))),
     "",
     totalsLine(summaries),
+    "",
+    ...pooledLeaderLines(summaries).map((line) => `${line.trim()}  `),
   ].join("\n");
 }

@@ -13,7 +13,13 @@ import { isPlumblineError } from "../../src/domain/errors.js";
 import { DEFAULT_SETTINGS } from "../../src/domain/settings.js";
 import { markdownTable, textTable } from "./format-table.js";
 import { DECAYS } from "./measure-channel.js";
-import { type CalibrationPlan, type OutputFormat, parsePlan, USAGE } from "./plan.js";
+import {
+  type CalibrationPlan,
+  DEFAULT_CHANNELS_TEXT,
+  type OutputFormat,
+  parsePlan,
+  USAGE,
+} from "./plan.js";
 import { runPlan } from "./run-jobs.js";
 import type { CellSummary } from "./summarize-cell.js";
 import { REGIMES } from "./true-matrix.js";
@@ -34,7 +40,7 @@ function header(plan: CalibrationPlan, seconds: number, revision: string): strin
   return [
     `date ${new Date().toISOString().slice(0, 10)}, commit ${revision}, node ${process.version}, ${cpus().length} × ${cpus()[0]?.model ?? "cpu"}, load ${loadavg()[0].toFixed(2)}, ${plan.workers} worker(s), ${seconds.toFixed(0)} s`,
     `product settings: the defaults ${JSON.stringify(DEFAULT_SETTINGS)}${Object.keys(plan.overrides).length > 0 ? `, with ${JSON.stringify(plan.overrides)}` : ""}, except halfLifeDays 0 in "none" cells and clusters off`,
-    `suite: seed ${plan.seed}, channels per cell ${plan.channels ?? "40 (n ≤ 60), 16 (n = 200), 6 (n = 1000)"}`,
+    `suite: seed ${plan.seed}, channels per cell ${plan.channels ?? DEFAULT_CHANNELS_TEXT}`,
   ];
 }
 

@@ -65,6 +65,77 @@ export function standardErrorPoints(rate: Rate): number | null {
   return p === null ? null : 100 * Math.sqrt((p * (1 - p)) / rate.total);
 }
 
+/** Two-sided normal quantile of a 95% interval (z for 0.975). */
+export const Z95 = 1.959963984540054;
+
+/**
+ * Wilson's score interval of a binomial rate (Wilson 1927, "Probable inference, the law of
+ * succession, and statistical inference", JASA 22:209–212; recommended over the Wald interval
+ * for small counts and rates near 0 or 1 by Newcombe 1998, "Two-sided confidence intervals for the
+ * single proportion: comparison of seven methods", Statistics in Medicine 17:857–872): the p with
+ * |p̂ − p| ≤ z·√(p(1−p)/t), i.e. centre (p̂ + z²/2t)/(1 + z²/t) and half-width
+ * z/(1 + z²/t)·√(p̂(1−p̂)/t + z²/4t²). Null for an empty rate.
+ */
+export function wilsonInterval(
+  rate: Rate,
+  z: number = Z95,
+): { readonly low: number; readonly high: number } | null {
+  const t = rate.total;
+  if (!(t > 0)) return null;
+  const p = rate.hits / t;
+  const z2 = z * z;
+  const denominator = 1 + z2 / t;
+  const centre = (p + z2 / (2 * t)) / denominator;
+  const half = (z / denominator) * Math.sqrt((p * (1 - p)) / t + z2 / (4 * t * t));
+  return { low: Math.max(0, centre - half), high: Math.min(1, centre + half) };
+}
+
+/** The leader rate of the leader cells of one size and decay setting, pooled over N/n and regimes. */
+export interface PooledLeader {
+  readonly n: number;
+  readonly decay: Decay;
+  readonly cells: number;
+  readonly inside: Rate;
+  readonly below: number;
+  readonly above: number;
+}
+
+/**
+ * Leader channels pooled per size n and decay setting, in table order. Decay settings are kept
+ * apart because both analyse the same simulated channels: pooled together, each channel would be
+ * counted twice and the binomial interval would be too narrow. Sizes without leader cells are
+ * left out.
+ */
+export function pooledLeaderBySize(summaries: readonly CellSummary[]): PooledLeader[] {
+  const pooled = new Map<string, PooledLeader & { inside: { hits: number; total: number } }>();
+  for (const s of summaries) {
+    if (s.leaderInside.total === 0) continue;
+    const key = `${s.n}|${s.decay}`;
+    const entry = pooled.get(key) ?? {
+      n: s.n,
+      decay: s.decay,
+      cells: 0,
+      inside: { hits: 0, total: 0 },
+      below: 0,
+      above: 0,
+    };
+    pooled.set(key, {
+      ...entry,
+      cells: entry.cells + 1,
+      inside: {
+        hits: entry.inside.hits + s.leaderInside.hits,
+        total: entry.inside.total + s.leaderInside.total,
+      },
+      below: entry.below + s.leaderBelow,
+      above: entry.above + s.leaderAbove,
+    });
+  }
+  const decayOrder = (d: Decay) => (d === "decay" ? 0 : 1);
+  return [...pooled.values()].sort(
+    (a, b) => a.n - b.n || decayOrder(a.decay) - decayOrder(b.decay),
+  );
+}
+
 /** Summarises the results of one cell (all of the same regime, decay, n and ratio). */
 export function summarizeCell(results: readonly ChannelResult[]): CellSummary {
   if (results.length === 0) throw new Error("a cell needs at least one channel");

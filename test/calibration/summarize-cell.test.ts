@@ -5,7 +5,11 @@
  */
 import { describe, expect, it } from "vitest";
 import type { ChannelResult } from "../../bench/calibrate/measure-channel.js";
-import { summarizeCell } from "../../bench/calibrate/summarize-cell.js";
+import {
+  pooledLeaderBySize,
+  summarizeCell,
+  wilsonInterval,
+} from "../../bench/calibrate/summarize-cell.js";
 
 /** `total` channels of 10 members, `covered` of each 10 intervals held; top share as given. */
 function channels(
@@ -105,5 +109,58 @@ describe("cell verdicts against DESIGN §4", () => {
       }),
     );
     expect(sixteen.floor.missed).toEqual(["leader"]);
+  });
+});
+
+describe("the judge's own noise", () => {
+  // Newcombe 1998, "Two-sided confidence intervals for the single proportion: comparison of seven
+  // methods", Statistics in Medicine 17:857–872, Table I, method 3 (Wilson's score interval without
+  // continuity correction), its worked examples to 4 decimals (values from memory; they agree with
+  // the closed form of Wilson 1927 to the 4 decimals printed).
+  it.each([
+    [81, 263, 0.2553, 0.3662],
+    [15, 148, 0.0624, 0.1605],
+    [0, 20, 0, 0.1611],
+    [1, 29, 0.0061, 0.1718],
+  ])(
+    "Wilson 95%% interval of %i/%i is %f–%f (Newcombe 1998, Table I)",
+    (hits, total, low, high) => {
+      const ci = wilsonInterval({ hits, total });
+      expect(ci?.low).toBeCloseTo(low, 4);
+      expect(ci?.high).toBeCloseTo(high, 4);
+    },
+  );
+
+  it("an empty rate has no interval; a full one ends at 1", () => {
+    expect(wilsonInterval({ hits: 0, total: 0 })).toBeNull();
+    expect(wilsonInterval({ hits: 40, total: 40 })?.high).toBe(1);
+  });
+
+  it("pools leader cells per size and decay, never across decays (same channels)", () => {
+    const leaderCell = (ratio: number, decay: "decay" | "none", hitsOf20: number) => ({
+      ...summarizeCell(
+        channels(20, {
+          regime: "leader",
+          ratio,
+          trueTop: 0.4,
+          crossed: () => true,
+          leader: (k) =>
+            k < hitsOf20
+              ? { share: 0.4, low: 0.35, high: 0.45 }
+              : { share: 0.3, low: 0.25, high: 0.35 },
+        }),
+      ),
+      decay,
+    });
+    const pooled = pooledLeaderBySize([
+      leaderCell(5, "none", 17),
+      leaderCell(15, "none", 19),
+      leaderCell(5, "decay", 10),
+      summarizeCell(channels(20)), // balanced: no leader channels, left out
+    ]);
+    expect(pooled).toEqual([
+      { n: 10, decay: "decay", cells: 1, inside: { hits: 10, total: 20 }, below: 10, above: 0 },
+      { n: 10, decay: "none", cells: 2, inside: { hits: 36, total: 40 }, below: 4, above: 0 },
+    ]);
   });
 });
