@@ -43,7 +43,7 @@ export interface BotOptions {
   /** Signed report-page links (the served page); absent in the console. */
   readonly reportLink?: (channel: string, reader: string) => string;
   /** Claim lease and look-back for the scheduler. */
-  readonly scheduling?: Pick<SchedulerDeps, "leaseMs" | "lookbackMs">;
+  readonly scheduling?: Pick<SchedulerDeps, "leaseMs" | "lookbackMs" | "jobs">;
   /** Where analyses run (serve: the queue over the worker pool); default the calling thread. */
   readonly analysis?: AnalysisRunner;
 }

@@ -136,6 +136,9 @@ export async function serve(options: ServeOptions): Promise<RunningServer> {
     facilitators: config.facilitators,
     replicaId: config.replicaId,
     reportLink: (channel, reader) => reports.linkFor(channel, reader),
+    // One scheduled job per worker at a time: a lone replica's burst keeps every worker busy
+    // while other jobs wait on the store or the platform (docs/burst.md).
+    scheduling: { jobs: Math.min(pool.size, 64) },
   });
   const server = createRouteServer({
     routes: [...adapters.flatMap((a) => a.routes), reports],

@@ -58,8 +58,12 @@ async function runOnPool<J extends AnalysisJob>(
   const onProgress = now ? progressLine({ now, write: io.stderr }) : undefined;
   try {
     if (job.kind === "analyze" && !pool.inThread) {
-      return runJob(job, onProgress, (plan, samples, meanwhile) =>
-        pool.drawRangesSync(plan, samples, onProgress, undefined, meanwhile),
+      return runJob(
+        job,
+        onProgress,
+        (plan, samples, meanwhile) =>
+          pool.drawRangesSync(plan, samples, onProgress, undefined, meanwhile),
+        (task, cumulative, strength) => pool.strengthRowsSync(task, cumulative, strength),
       );
     }
     return await pool.run(job, onProgress ? { onProgress } : {});

@@ -6,10 +6,8 @@
 import { resolve } from "node:path";
 import { PlumblineError } from "../../src/domain/errors.js";
 import type { LedgerSnapshot } from "../../src/domain/ledger.js";
-import { openStore } from "../../src/store/open-store.js";
 import type { ParsedCommand } from "./cli-flags.js";
 import type { CliIo } from "./cli-io.js";
-import { databaseUrl, storeOptions } from "./cli-store.js";
 import { loadLogChannel } from "./load-source.js";
 
 export async function loadChannel(args: {
@@ -30,6 +28,11 @@ export async function loadChannel(args: {
     if (channel === undefined) {
       throw new PlumblineError("ARG_MISSING", "--db needs --channel", { hint: `usage: ${usage}` });
     }
+    // The store's drivers (pg, better-sqlite3) load only when a command reads the store.
+    const [{ openStore }, { databaseUrl, storeOptions }] = await Promise.all([
+      import("../../src/store/open-store.js"),
+      import("./cli-store.js"),
+    ]);
     const store = await openStore(databaseUrl(parsed.values.db, io), storeOptions(io));
     try {
       const known = (await store.listChannels()).map((c) => c.channel);

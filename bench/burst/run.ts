@@ -22,10 +22,18 @@
  * --patterns P (default 50): that many channels are seeded through ingestion, the others are
  * SQL copies of them (channel i has pattern i mod P), since ingesting 1,000 channels takes more
  * than an hour on this machine.
- * The schema is dropped at the end, also after a failure or Ctrl-C.
+ * --workers N (analysis threads per replica, 0: in the replica's thread; default the machine's
+ * parallelism, as `serve`), --jobs N (the scheduler's channels at once; default as many as
+ * workers, 1 with none). --schema plumbline_burst_NAME names the schema (and
+ * fixes the store's id key by it); --seed-only seeds it and keeps it; --reuse runs on a kept one
+ * without seeding (so each run can be its own invocation inside the bench lock); --keep keeps it.
+ * A second table says where each run's time went (CPU of replicas, their PostgreSQL backends and
+ * the bench; waits per digest).
+ * The schema is dropped at the end, also after a failure or Ctrl-C, unless kept.
  */
 import { type ChildProcess, execFileSync, spawn } from "node:child_process";
-import { randomBytes } from "node:crypto";
+import { createHash, randomBytes } from "node:crypto";
+import { readFileSync } from "node:fs";
 import { availableParallelism, loadavg } from "node:os";
 import { dirname, join } from "node:path";
 import { fileURLToPath } from "node:url";
@@ -44,7 +52,6 @@ const here = dirname(fileURLToPath(import.meta.url));
 const PG_URL = process.env.DATABASE_URL?.startsWith("postgres")
   ? process.env.DATABASE_URL
   : "postgres://postgres@127.0.0.1:5432/test";
-const ID_KEY = `burst-${randomBytes(16).toString("hex")}`;
 const TEAM = "T0BURST";
 /** Monday 30 November 2026, 09:00:30 UTC: every default digest fell due 30 s ago. */
 const BASE = Date.UTC(2026, 10, 30, 9, 0, 30);
@@ -62,6 +69,15 @@ const runsWanted = option("runs", "1,2,3,3k").split(",");
 const samples = Number(option("samples", "40"));
 const templates = Number(option("patterns", "50"));
 const workspacePerMinute = Number(option("workspace-per-minute", "300"));
+/**
+ * Worker threads per replica (0: analyses in the replica's own thread) and scheduler jobs; by
+ * default as `serve` runs: a pool of availableParallelism() workers and as many jobs.
+ */
+const workers = Number(option("workers", String(availableParallelism())));
+const jobs = Number(option("jobs", String(Math.max(1, workers))));
+if (!(Number.isInteger(workers) && workers >= 0 && Number.isInteger(jobs) && jobs >= 1)) {
+  throw new Error("--workers must be a whole number ≥ 0 and --jobs ≥ 1");
+}
 if (
   !(Number.isInteger(channelsWanted) && channelsWanted > 0 && leaseMs > 0 && capMs > 0) ||
   !(Number.isInteger(samples) && samples >= 0 && workspacePerMinute > 0)
@@ -70,7 +86,25 @@ if (
     "--channels, --lease, --cap and --workspace-per-minute must be positive, --samples ≥ 0",
   );
 }
-const schema = `plumbline_burst_${process.pid}_${randomBytes(3).toString("hex")}`;
+const namedSchema = option("schema", "");
+const reuse = process.argv.includes("--reuse");
+const seedOnly = process.argv.includes("--seed-only");
+const keep = reuse || seedOnly || process.argv.includes("--keep");
+if (namedSchema !== "" && !/^plumbline_burst_[a-z0-9_]+$/.test(namedSchema)) {
+  throw new Error("--schema must look like plumbline_burst_NAME (lower-case letters, digits, _)");
+}
+if ((reuse || seedOnly) && namedSchema === "") {
+  throw new Error("--reuse and --seed-only need --schema plumbline_burst_NAME");
+}
+const schema =
+  namedSchema !== ""
+    ? namedSchema
+    : `plumbline_burst_${process.pid}_${randomBytes(3).toString("hex")}`;
+/** The store's id key: fixed by a named schema, so a later --reuse reads the same member keys. */
+const ID_KEY =
+  namedSchema !== ""
+    ? `burst-${createHash("sha256").update(namedSchema).digest("hex").slice(0, 32)}`
+    : `burst-${randomBytes(16).toString("hex")}`;
 const benchStart = Date.now();
 
 interface ReplicaStatus {
@@ -78,6 +112,10 @@ interface ReplicaStatus {
   ready?: boolean;
   maxRssKb: number;
   statements: number;
+  sqlMs: number;
+  analysisMs: number;
+  slackMs: number;
+  cpuMs: number;
   posted: number;
   /** Channel → error of its last failed compose or post. */
   failing?: Record<string, string>;
@@ -101,6 +139,75 @@ interface RunResult {
   refused: number;
   stuck: string;
   takeover: string;
+  /** Where the time went (per digest posted unless said otherwise). */
+  cost: {
+    wallS: number;
+    replicaCpuS: string;
+    replicaCpuPerDigestMs: number;
+    replicaCores: number;
+    machineBusy: number;
+    pgCpuPerDigestMs: number;
+    benchCpuPerDigestMs: number;
+    analysisPerDigestMs: number;
+    sqlPerDigestMs: number;
+    slackPerDigestMs: number;
+  };
+}
+
+/** Jiffies per second for /proc (getconf CLK_TCK; 100 on Linux almost everywhere). */
+const CLK_TCK = (() => {
+  try {
+    return Number(execFileSync("getconf", ["CLK_TCK"]).toString().trim()) || 100;
+  } catch {
+    return 100;
+  }
+})();
+
+/** The machine's CPU jiffies (all cores) from /proc/stat: busy and total. */
+function machineCpu(): { busy: number; total: number } {
+  const fields = readFileSync("/proc/stat", "utf8").split("\n")[0].trim().split(/\s+/).slice(1);
+  const values = fields.map(Number);
+  const idle = values[3] + (values[4] ?? 0); // idle + iowait
+  const total = values.slice(0, 8).reduce((a, b) => a + b, 0); // without guest (counted in user)
+  return { busy: total - idle, total };
+}
+
+/** utime + stime of a process in ms, or null when it is gone. */
+function processCpuMs(pid: number): number | null {
+  try {
+    const stat = readFileSync(`/proc/${pid}/stat`, "utf8");
+    const rest = stat.slice(stat.lastIndexOf(")") + 2).split(" ");
+    return ((Number(rest[11]) + Number(rest[12])) * 1000) / CLK_TCK;
+  } catch {
+    return null;
+  }
+}
+
+/**
+ * CPU used by the PostgreSQL backends of the replicas' connections (application_name burst-rN), sampled
+ * on each poll from pg_stat_activity and /proc: a backend's last sample counts, less its CPU at
+ * the start of the run. The last < 250 ms of a backend that closes between polls is not counted.
+ */
+class BackendCpu {
+  private readonly start = new Map<number, number>();
+  private readonly last = new Map<number, number>();
+  constructor(private readonly monitor: pg.Client) {}
+  async sample(first = false): Promise<void> {
+    const { rows } = await this.monitor.query<{ pid: number }>(
+      "SELECT pid FROM pg_stat_activity WHERE datname = current_database() AND application_name LIKE 'burst-r%'",
+    );
+    for (const { pid } of rows) {
+      const ms = processCpuMs(pid);
+      if (ms === null) continue;
+      if (!this.start.has(pid)) this.start.set(pid, first ? ms : 0);
+      this.last.set(pid, ms);
+    }
+  }
+  totalMs(): number {
+    let sum = 0;
+    for (const [pid, ms] of this.last) sum += ms - (this.start.get(pid) ?? 0);
+    return sum;
+  }
 }
 
 async function seed(channels: string[]): Promise<void> {
@@ -199,7 +306,8 @@ function startReplica(id: string, slackUrl: string, statuses: Map<string, Replic
   const child = spawn(process.execPath, ["--import", "tsx", join(here, "replica.ts")], {
     env: {
       ...process.env,
-      DATABASE_URL: PG_URL,
+      // Named, so the bench counts the CPU of this replica's PostgreSQL backends and no others.
+      DATABASE_URL: `${PG_URL}${PG_URL.includes("?") ? "&" : "?"}application_name=burst-${id}`,
       BURST_SCHEMA: schema,
       BURST_REPLICA: id,
       BURST_LEASE_MS: String(leaseMs),
@@ -207,6 +315,8 @@ function startReplica(id: string, slackUrl: string, statuses: Map<string, Replic
       BURST_BASE: String(BASE),
       BURST_ID_KEY: ID_KEY,
       BURST_SAMPLES: String(samples),
+      BURST_WORKERS: String(workers),
+      BURST_JOBS: String(jobs),
     },
     stdio: ["pipe", "pipe", "inherit"],
   });
@@ -227,13 +337,22 @@ function startReplica(id: string, slackUrl: string, statuses: Map<string, Replic
   return child;
 }
 
-function commitId(): string {
+/** The commit the bench started from (read at start: commits made during a run do not count). */
+const startCommit = (() => {
   try {
-    return execFileSync("git", ["rev-parse", "--short", "HEAD"], { cwd: here }).toString().trim();
+    const head = execFileSync("git", ["rev-parse", "--short", "HEAD"], { cwd: here })
+      .toString()
+      .trim();
+    const dirty = execFileSync("git", ["status", "--porcelain", "--untracked-files=no"], {
+      cwd: here,
+    })
+      .toString()
+      .trim();
+    return dirty === "" ? head : `${head} + uncommitted changes`;
   } catch {
     return "unknown";
   }
-}
+})();
 
 const sleep = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
 
@@ -258,6 +377,13 @@ async function runOnce(
   while (ids.some((id) => statuses.get(id) === undefined) && Date.now() < benchStart + capMs) {
     await sleep(100);
   }
+  const monitor = new pg.Client({ connectionString: PG_URL });
+  await monitor.connect();
+  await monitor.query(`SET search_path TO ${schema}`);
+  const backends = new BackendCpu(monitor);
+  await backends.sample(true);
+  const machineAtGo = machineCpu();
+  const benchCpuAtGo = process.cpuUsage();
   const t0 = Date.now();
   for (const child of children) child.stdin?.end("go\n");
   let killAt: number | null = null;
@@ -268,7 +394,8 @@ async function runOnce(
   let stuck = new Map<string, string>();
   while (Date.now() < deadline) {
     await sleep(kill && killAt === null ? 20 : 250);
-    const finalRows = await query<{ channel: string }>(
+    await backends.sample();
+    const { rows: finalRows } = await monitor.query<{ channel: string }>(
       "SELECT channel FROM post_claim WHERE kind = 'digest' AND period = $1 AND status IN ('posted', 'missed')",
       [PERIOD],
     );
@@ -281,7 +408,7 @@ async function runOnce(
     const final = finals.size;
     if (kill && killAt === null && final >= channels.length / 2) {
       // Half-way, and at a moment the victim holds a job (composing or posting): SIGKILL it.
-      const held = await query<{ channel: string }>(
+      const { rows: held } = await monitor.query<{ channel: string }>(
         "SELECT channel FROM post_claim WHERE claimed_by = $1 AND status IN ('claimed', 'posting')",
         [ids[1]],
       );
@@ -302,6 +429,11 @@ async function runOnce(
       break;
     }
   }
+  const wallMs = Date.now() - t0;
+  const machineAtEnd = machineCpu();
+  const benchCpu = process.cpuUsage(benchCpuAtGo);
+  await backends.sample();
+  await monitor.end();
   for (const child of children) if (child.exitCode === null) child.kill("SIGTERM");
   await Promise.race([Promise.all(children.map(exited)), sleep(10_000)]);
   for (const child of children) if (child.exitCode === null) child.kill("SIGKILL");
@@ -320,6 +452,21 @@ async function runOnce(
   const postedTotal = byReplica.reduce((s, r) => s + Number(r.n), 0);
   const shares = byReplica.map((r) => ({ id: r.claimed_by, share: Number(r.n) / postedTotal }));
   const statements = [...statuses.values()].reduce((s, r) => s + r.statements, 0);
+  const sum = (field: "cpuMs" | "sqlMs" | "analysisMs" | "slackMs") =>
+    [...statuses.values()].reduce((s, r) => s + (r[field] ?? 0), 0);
+  const digests = Math.max(1, postedTotal);
+  const cost = {
+    wallS: wallMs / 1000,
+    replicaCpuS: ids.map((id) => ((statuses.get(id)?.cpuMs ?? 0) / 1000).toFixed(0)).join("/"),
+    replicaCpuPerDigestMs: sum("cpuMs") / digests,
+    replicaCores: sum("cpuMs") / wallMs,
+    machineBusy: (machineAtEnd.busy - machineAtGo.busy) / (machineAtEnd.total - machineAtGo.total),
+    pgCpuPerDigestMs: backends.totalMs() / digests,
+    benchCpuPerDigestMs: (benchCpu.user + benchCpu.system) / 1000 / digests,
+    analysisPerDigestMs: sum("analysisMs") / digests,
+    sqlPerDigestMs: sum("sqlMs") / digests,
+    slackPerDigestMs: sum("slackMs") / digests,
+  };
   let takeover = "";
   if (kill) {
     if (killAt === null) {
@@ -362,6 +509,7 @@ async function runOnce(
     refused: slack.refused(),
     stuck: stuckSummary(stuck),
     takeover,
+    cost,
   };
 }
 
@@ -408,13 +556,65 @@ function table(results: RunResult[]): string {
   return [line(head), widths.map((w) => "-".repeat(w)).join("-|-"), ...rows.map(line)].join("\n");
 }
 
+/** Where each run's time went: CPU of replicas, PostgreSQL and the bench, and waits per digest. */
+function costTable(results: RunResult[]): string {
+  const head = [
+    "run",
+    "wall s",
+    "replica CPU s",
+    "replica CPU ms/digest",
+    "replicas' cores busy",
+    "machine busy %",
+    "PostgreSQL CPU ms/digest",
+    "bench+fake CPU ms/digest",
+    "in analysis ms/digest",
+    "awaiting SQL ms/digest",
+    "awaiting Slack ms/digest",
+  ];
+  const rows = results.map((r) => [
+    r.label,
+    r.cost.wallS.toFixed(1),
+    r.cost.replicaCpuS,
+    r.cost.replicaCpuPerDigestMs.toFixed(0),
+    r.cost.replicaCores.toFixed(2),
+    (100 * r.cost.machineBusy).toFixed(0),
+    r.cost.pgCpuPerDigestMs.toFixed(0),
+    r.cost.benchCpuPerDigestMs.toFixed(0),
+    r.cost.analysisPerDigestMs.toFixed(0),
+    r.cost.sqlPerDigestMs.toFixed(0),
+    r.cost.slackPerDigestMs.toFixed(0),
+  ]);
+  const widths = head.map((h, i) => Math.max(h.length, ...rows.map((row) => row[i].length)));
+  const line = (cells: string[]) => cells.map((c, i) => c.padEnd(widths[i])).join(" | ");
+  return [line(head), widths.map((w) => "-".repeat(w)).join("-|-"), ...rows.map(line)].join("\n");
+}
+
+/** With --reuse: the kept schema must hold exactly the channels asked for. */
+async function checkReused(channels: string[]): Promise<void> {
+  const rows = await query<{ n: string }>("SELECT count(*) AS n FROM channel").catch(() => {
+    throw new Error(`--reuse: schema ${schema} is missing; seed it first with --seed-only`);
+  });
+  const n = Number(rows[0]?.n ?? 0);
+  if (n !== channels.length) {
+    throw new Error(
+      `--reuse: schema ${schema} holds ${n} channels, not --channels ${channels.length}; pass --channels ${n}`,
+    );
+  }
+  console.log(`reusing schema ${schema} (${n} channels)`);
+}
+
 async function main(): Promise<void> {
   const channels = Array.from({ length: channelsWanted }, (_, i) =>
     coreChannelId(TEAM, `C${i.toString(36).toUpperCase().padStart(6, "0")}`),
   );
   const slack = await startFakeSlack({ minIntervalMs: 1000, workspacePerMinute });
   try {
-    await seed(channels);
+    if (reuse) await checkReused(channels);
+    else await seed(channels);
+    if (seedOnly) {
+      console.log(`kept schema ${schema}: run with --schema ${schema} --reuse`);
+      return;
+    }
     const results: RunResult[] = [];
     const plan: [string, number, boolean][] = [
       ["1", 1, false],
@@ -433,14 +633,16 @@ async function main(): Promise<void> {
     }
     console.log("");
     console.log(
-      `Burst: ${channels.length} channels, digests due Monday 09:00 UTC, lease ${leaseMs / 1000} s, ${samples} draws per analysis, Slack faked at 1 post/s per channel and ${workspacePerMinute} posts/min per workspace`,
+      `Burst: ${channels.length} channels, digests due Monday 09:00 UTC, lease ${leaseMs / 1000} s, ${samples} draws per analysis (the product's default: 400), ${workers === 0 ? "analyses in each replica's own thread" : `${workers} analysis worker(s) per replica`}, ${jobs} scheduler job(s) at once per replica, Slack faked at 1 post/s per channel and ${workspacePerMinute} posts/min per workspace`,
     );
     console.log(
-      `${new Date().toISOString()}, commit ${commitId()}, ${availableParallelism()} cores, load average at the end ${loadavg()
+      `${new Date().toISOString()}, commit ${startCommit}, ${availableParallelism()} cores, load average at the end ${loadavg()
         .map((l) => l.toFixed(2))
         .join(" ")}`,
     );
     console.log(table(results));
+    console.log("");
+    console.log(costTable(results));
     const one = results.find((r) => r.label.startsWith("1 "));
     const three = results.find((r) => r.label === "3 replica(s)");
     if (one && three) {
@@ -457,14 +659,19 @@ async function main(): Promise<void> {
     );
   } finally {
     await slack.close();
-    const client = new pg.Client({ connectionString: PG_URL });
-    await client.connect();
-    await client.query(`DROP SCHEMA IF EXISTS ${schema} CASCADE`);
-    await client.end();
+    if (!keep) await dropSchema();
   }
 }
 
+async function dropSchema(): Promise<void> {
+  const client = new pg.Client({ connectionString: PG_URL });
+  await client.connect();
+  await client.query(`DROP SCHEMA IF EXISTS ${schema} CASCADE`);
+  await client.end();
+}
+
 process.on("SIGINT", () => {
+  if (keep) process.exit(130);
   const client = new pg.Client({ connectionString: PG_URL });
   client
     .connect()

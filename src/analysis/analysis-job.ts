@@ -9,6 +9,7 @@ import type { LedgerSnapshot } from "../domain/ledger.js";
 import type { AnalysisReport } from "../domain/report.js";
 import type { AnalysisSettings } from "../domain/settings.js";
 import type { DrawRangeRunner } from "../influence/analyze-influence.js";
+import type { StrengthRowsRunner } from "../influence/attention-prior.js";
 import { analyzeSnapshot } from "./analyze-snapshot.js";
 import { type CompareReport, comparePeriods } from "./compare-periods.js";
 import { type WhatIfReport, whatIfCap } from "./what-if.js";
@@ -55,19 +56,24 @@ export const inThreadRunner = {
   },
 };
 
-/** Computes `job` in the calling thread. */
+/**
+ * Computes `job` in the calling thread; an analysis may hand its draws (`drawRanges`) and its
+ * prior's strength rows (`strengthRows`) to other threads.
+ */
 export function runJob<J extends AnalysisJob>(
   job: J,
   onProgress?: DrawProgress,
   drawRanges?: DrawRangeRunner,
+  strengthRows?: StrengthRowsRunner,
 ): ResultOf<J> {
-  return runAny(job, onProgress, drawRanges) as ResultOf<J>;
+  return runAny(job, onProgress, drawRanges, strengthRows) as ResultOf<J>;
 }
 
 function runAny(
   job: AnalysisJob,
   onProgress?: DrawProgress,
   drawRanges?: DrawRangeRunner,
+  strengthRows?: StrengthRowsRunner,
 ): ResultOf<AnalysisJob> {
   switch (job.kind) {
     case "analyze": {
@@ -76,6 +82,7 @@ function runAny(
         ...(job.until === undefined ? {} : { until: job.until }),
         ...(onProgress ? { onDraw: (done: number) => onProgress(done, total) } : {}),
         ...(drawRanges ? { drawRanges } : {}),
+        ...(strengthRows ? { strengthRows } : {}),
       });
     }
     case "compare":

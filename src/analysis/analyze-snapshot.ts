@@ -16,6 +16,7 @@ import {
   type DrawRangeRunner,
   type InfluenceResult,
 } from "../influence/analyze-influence.js";
+import type { StrengthRowsRunner } from "../influence/attention-prior.js";
 import type { AttentionRows } from "../influence/attention-rows.js";
 import { deriveSeed } from "../ports/rng.js";
 import {
@@ -34,6 +35,8 @@ export interface AnalyzeOptions {
   readonly onDraw?: (done: number) => void;
   /** Where the posterior draws run (the CLI: the worker pool's threads); default here. */
   readonly drawRanges?: DrawRangeRunner;
+  /** Where the prior's strength posterior of the rows runs (the CLI: shared with the pool). */
+  readonly strengthRows?: StrengthRowsRunner;
 }
 
 /** The report together with the draws behind it, for compare and what-if. */
@@ -95,6 +98,7 @@ export function analyzeSnapshotDetailed(
     ...(options.transform ? { transform: options.transform } : {}),
     ...(options.onDraw ? { onDraw: options.onDraw } : {}),
     ...(options.drawRanges ? { drawRanges: options.drawRanges } : {}),
+    ...(options.strengthRows ? { strengthRows: options.strengthRows } : {}),
   });
   return { report: assembleReport(frame, input, influence), input, influence };
 }

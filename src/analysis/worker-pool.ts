@@ -17,9 +17,11 @@ import { dirname, join } from "node:path";
 import { fileURLToPath, pathToFileURL } from "node:url";
 import { Worker } from "node:worker_threads";
 import { PlumblineError } from "../domain/errors.js";
+import type { StrengthRowsTask } from "../influence/attention-prior.js";
 import type { DrawPlan, DrawRange } from "../influence/posterior-draws.js";
 import type { AnalysisRunner, RunOptions } from "../ports/analysis-runner.js";
 import { type AnalysisJob, type ResultOf, runJob } from "./analysis-job.js";
+import { runStrengthChunks, type StrengthTask } from "./strength-chunks.js";
 import type { DrawTask, WorkerReply } from "./worker-pool-entry.js";
 
 /** The pool size from `PLUMBLINE_WORKERS` (a whole number ≥ 1), else the machine's parallelism. */
@@ -164,6 +166,55 @@ export class WorkerPool implements AnalysisRunner {
       onProgress?.(done, samples);
     }
     return { shares, effectiveVoices: voices };
+  }
+
+  /**
+   * One pass of the prior's strength posterior over the rows (`StrengthRowsRunner`), shared by
+   * the calling thread and the workers already started (the CLI starts them before reading the
+   * log; they are idle until the draws): chunks of rows from a shared counter, each computed by
+   * `strengthRows`, results at the rows' offsets, so the same numbers as in one thread. The
+   * calling thread takes chunks too, so a worker still loading costs nothing: it finds none
+   * left. False (the caller computes every row) when no worker is up, the pool has jobs of its
+   * own, or a worker failed on a chunk.
+   */
+  strengthRowsSync(
+    task: StrengthRowsTask,
+    cumulative: Float64Array,
+    strength: Float64Array,
+    callerTakes = true,
+  ): boolean {
+    if (this.inThread || this.closed || this.load > 0 || this.slots.length === 0) return false;
+    const n = task.n;
+    const G = task.grid.length;
+    const sharedCumulative = new Float64Array(new SharedArrayBuffer(8 * n * G));
+    const sharedStrength = new Float64Array(new SharedArrayBuffer(8 * n));
+    const control = new Int32Array(new SharedArrayBuffer(12));
+    const chunk = Math.max(1, Math.ceil(n / (8 * (this.slots.length + 1))));
+    const message: StrengthTask = {
+      type: "strength",
+      task,
+      chunk,
+      cumulative: sharedCumulative,
+      strength: sharedStrength,
+      control,
+    };
+    for (const slot of this.slots) slot.worker.postMessage(message);
+    if (callerTakes) runStrengthChunks(message); // false: the workers take every chunk (tests)
+    // The chunks the workers took: each takes milliseconds; 30 s without progress means a worker
+    // died holding one (its exit event cannot be handled while this thread waits).
+    let last = performance.now();
+    for (let done = Atomics.load(control, 0); done < n; ) {
+      if (Atomics.load(control, 1) !== 0) return false;
+      Atomics.wait(control, 0, done, 250);
+      const now = Atomics.load(control, 0);
+      if (now !== done) last = performance.now();
+      else if (performance.now() - last > 30_000) return false;
+      done = now;
+    }
+    if (Atomics.load(control, 1) !== 0) return false;
+    cumulative.set(sharedCumulative);
+    strength.set(sharedStrength);
+    return true;
   }
 
   /** For readiness (`/readyz`): throws when the pool is closed or, off-thread, has no worker. */

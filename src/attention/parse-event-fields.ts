@@ -52,6 +52,112 @@ const ID_RULE = `a non-empty string of at most ${MAX_ID_LENGTH} characters`;
 
 /** Validates a parsed JSON object from log line `line`; throws `LogLineError` on the first problem. */
 export function parseEventObject(record: Record<string, unknown>, line: number): ChatEvent {
+  return wellFormedEvent(record) ?? checkedEvent(record, line);
+}
+
+/** Each type's fields, `type` included, for the one-pass check of `wellFormedEvent`. */
+const ALLOWED = new Map<string, ReadonlySet<string>>(
+  EVENT_TYPES.map((type) => [
+    type,
+    new Set(["type", ...FIELDS[type].required, ...FIELDS[type].optional]),
+  ]),
+);
+
+function isId(value: unknown): value is string {
+  return typeof value === "string" && value.length > 0 && value.length <= MAX_ID_LENGTH;
+}
+
+function isIdList(value: unknown): value is string[] {
+  if (!Array.isArray(value)) return false;
+  for (let k = 0; k < value.length; k++) if (!isId(value[k])) return false;
+  return true;
+}
+
+/**
+ * The event of a record that passes every check of `checkedEvent`, built the same way (same
+ * fields in the same order), in one pass over its keys and without building error closures; null
+ * for anything else, which `checkedEvent` then reports with its field and fix. The field-by-field
+ * version took two thirds of the log reader's time on large logs (DEVELOPERS.md, "Speed").
+ */
+export function wellFormedEvent(record: Record<string, unknown>): ChatEvent | null {
+  const type = record.type;
+  if (typeof type !== "string") return null;
+  const allowed = ALLOWED.get(type);
+  if (allowed === undefined) return null;
+  // Content fields are in no set, so a record carrying one goes to checkedEvent's refusal.
+  for (const key of Object.keys(record)) if (!allowed.has(key)) return null;
+  const atText = record.at;
+  const at = typeof atText === "string" ? parseIsoTime(atText) : null;
+  const channel = record.channel;
+  if (at === null || !isId(channel)) return null;
+  switch (type as ChatEventType) {
+    case "message": {
+      const { id, author } = record;
+      if (!isId(id) || !isId(author)) return null;
+      const event: {
+        type: "message";
+        at: number;
+        channel: string;
+        id: string;
+        author: string;
+        parent?: string;
+        parentAuthor?: string;
+        mentions?: readonly string[];
+      } = { type: "message", at, channel, id, author };
+      if (Object.hasOwn(record, "parent")) {
+        if (!isId(record.parent)) return null;
+        event.parent = record.parent;
+      }
+      if (Object.hasOwn(record, "parentAuthor")) {
+        if (!isId(record.parentAuthor)) return null;
+        event.parentAuthor = record.parentAuthor;
+      }
+      if (Object.hasOwn(record, "mentions")) {
+        const mentions = record.mentions;
+        if (!isIdList(mentions)) return null;
+        event.mentions = mentions.slice();
+      }
+      return event;
+    }
+    case "consent": {
+      const { member, level } = record;
+      if (!isId(member) || typeof level !== "string" || !(LEVELS as string[]).includes(level)) {
+        return null;
+      }
+      if (!Object.hasOwn(record, "notice")) {
+        return { type: "consent", at, channel, member, level: level as ConsentLevel };
+      }
+      const notice = record.notice;
+      if (typeof notice !== "string" || notice.length > MAX_ID_LENGTH) return null;
+      return { type: "consent", at, channel, member, level: level as ConsentLevel, notice };
+    }
+    case "edit": {
+      const { id, mentions } = record;
+      if (!isId(id) || !isIdList(mentions)) return null;
+      return { type: "edit", at, channel, id, mentions: mentions.slice() };
+    }
+    case "delete":
+    case "undelete": {
+      const id = record.id;
+      if (!isId(id)) return null;
+      return { type: type as "delete" | "undelete", at, channel, id };
+    }
+    case "group": {
+      const { member, group } = record;
+      if (!isId(member) || !(group === null || isId(group))) return null;
+      return { type: "group", at, channel, member, group };
+    }
+    case "format": {
+      const format = record.format;
+      if (!(format === null || isId(format))) return null;
+      return { type: "format", at, channel, format };
+    }
+  }
+  return null;
+}
+
+/** `parseEventObject` check by check, in the fixed order that names the first bad field. */
+export function checkedEvent(record: Record<string, unknown>, line: number): ChatEvent {
   const bad = (field: string, message: string): LogLineError =>
     new LogLineError("LOG_BAD_FIELD", line, field, message);
   const has = (field: string): boolean => Object.hasOwn(record, field);

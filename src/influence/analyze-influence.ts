@@ -7,7 +7,12 @@
  * set, so a what-if and its baseline use the same draws and compare pairwise.
  */
 import type { CountMatrix } from "../domain/counts.js";
-import { type Background, buildAttentionPrior, pointRowsFromPrior } from "./attention-prior.js";
+import {
+  type Background,
+  buildAttentionPrior,
+  pointRowsFromPrior,
+  type StrengthRowsRunner,
+} from "./attention-prior.js";
 import type { AttentionRows } from "./attention-rows.js";
 import {
   type DrawPlan,
@@ -41,6 +46,8 @@ export interface InfluenceOptions {
   readonly transform?: (rows: AttentionRows) => AttentionRows;
   /** Where the draws run when there is no transform (issue 12); default here. */
   readonly drawRanges?: DrawRangeRunner;
+  /** Where the prior's strength posterior of the rows runs (the CLI: shared with the pool). */
+  readonly strengthRows?: StrengthRowsRunner;
   /** Called with the number of draws done, about 50 times per analysis. */
   readonly onDraw?: (done: number) => void;
   /** Member → group whose attention profile is the member's prior (default: one group). */
@@ -94,7 +101,12 @@ function drawHere(
 }
 
 export function analyzeInfluence(counts: CountMatrix, options: InfluenceOptions): InfluenceResult {
-  const prior = buildAttentionPrior(counts, options.background, options.groupOf);
+  const prior = buildAttentionPrior(
+    counts,
+    options.background,
+    options.groupOf,
+    options.strengthRows,
+  );
   const rows0 = pointRowsFromPrior(counts, prior);
   const rows = options.transform ? options.transform(rows0) : rows0;
   const point = stationaryVector(rows, { selfWeight: options.selfWeight }).vector;

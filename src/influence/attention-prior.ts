@@ -165,24 +165,56 @@ export function logNegativeBinomial(x: number, r: number, mean: number): number 
 const HUB_NODES = 48;
 
 /**
- * log P(x) when the rate λ is log-uniform on [μ, R·μ] (the hub component): the Poisson probability
- * averaged over ln λ, by the trapezoid rule on HUB_NODES nodes (log-sum-exp).
+ * log P(x) when the rate λ is log-uniform on [μ, R·μ] (the hub component), the Poisson probability
+ * averaged over ln λ by the trapezoid rule on HUB_NODES nodes (log-sum-exp), for one mean μ and
+ * many x: ln λ_t, λ_t and the trapezoid weights' logs depend on μ
+ * only, so `fitPopularity` computes them once per pass instead of once per member (the same
+ * operations in the same order as computing them inside, so the same numbers).
  */
-function logHubMarginal(x: number, mean: number, range: number): number {
+function hubNodes(mean: number, range: number) {
   const a = Math.log(mean);
   const h = Math.log(range) / (HUB_NODES - 1);
-  const constant = logGamma(x + 1);
-  let max = Number.NEGATIVE_INFINITY;
-  const logs = new Float64Array(HUB_NODES);
+  const logRates = new Float64Array(HUB_NODES);
+  const rates = new Float64Array(HUB_NODES);
+  const logWeights = new Float64Array(HUB_NODES);
   for (let t = 0; t < HUB_NODES; t++) {
-    const logRate = a + t * h;
-    const w = t === 0 || t === HUB_NODES - 1 ? 0.5 : 1;
-    logs[t] = x * logRate - Math.exp(logRate) - constant + Math.log(w);
-    if (logs[t] > max) max = logs[t];
+    logRates[t] = a + t * h;
+    rates[t] = Math.exp(logRates[t]);
+    logWeights[t] = Math.log(t === 0 || t === HUB_NODES - 1 ? 0.5 : 1);
   }
-  let sum = 0;
-  for (let t = 0; t < HUB_NODES; t++) sum += Math.exp(logs[t] - max);
-  return max + Math.log(sum / (HUB_NODES - 1));
+  const logs = new Float64Array(HUB_NODES);
+  return {
+    /** The marginal at x, given lnΓ(x + 1). */
+    marginal(x: number, constant: number): number {
+      let max = Number.NEGATIVE_INFINITY;
+      for (let t = 0; t < HUB_NODES; t++) {
+        logs[t] = x * logRates[t] - rates[t] - constant + logWeights[t];
+        if (logs[t] > max) max = logs[t];
+      }
+      let sum = 0;
+      for (let t = 0; t < HUB_NODES; t++) sum += Math.exp(logs[t] - max);
+      return max + Math.log(sum / (HUB_NODES - 1));
+    },
+  };
+}
+
+/**
+ * `logNegativeBinomial` over many x at one shape r and mean μ: lnΓ(r), r·ln(r/(r+μ)) and
+ * ln(μ/(r+μ)) once, lnΓ(x+1) given by the caller (`logFactorial`), so one lnΓ per member
+ * remains. The same operations in the same order as `logNegativeBinomial`, so the same numbers.
+ */
+export function negativeBinomialAt(r: number, mean: number) {
+  const logTotal = Math.log(r + mean);
+  const logGammaR = logGamma(r);
+  const shapeTerm = r * (Math.log(r) - logTotal);
+  const countFactor = Math.log(mean) - logTotal;
+  return (x: number, logFactorial: number): number =>
+    // x = 0: x + r is r, so lnΓ(x + r) is lnΓ(r).
+    (x === 0 ? logGammaR : logGamma(x + r)) -
+    logGammaR -
+    logFactorial +
+    shapeTerm +
+    (x > 0 ? x * countFactor : 0);
 }
 
 /**
@@ -208,16 +240,23 @@ export function fitPopularity(x: ArrayLike<number>): Popularity {
   for (let j = 0; j < n; j++) total += x[j];
   if (!(total > 0) || n === 0) return { shape: popularityGridHigh, mean: 1, hubProbability };
   const grid = logGrid(popularityGridLow, popularityGridHigh, G);
+  // lnΓ(x_j + 1) is the same at every pass and grid point.
+  const logFactorial = new Float64Array(n);
+  for (let j = 0; j < n; j++) logFactorial[j] = logGamma(x[j] + 1);
+  const logHub = Math.log(hubShare);
+  const logTypical = Math.log(1 - hubShare);
   let mean = total / n;
   let shape = 1;
   for (let pass = 0; pass < 20; pass++) {
+    const hubAt = hubNodes(mean, hubRange);
+    const typicalAt = negativeBinomialAt(shape, mean);
     for (let j = 0; j < n; j++) {
       if (!(x[j] > 0)) {
         hubProbability[j] = 0;
         continue;
       }
-      const hub = Math.log(hubShare) + logHubMarginal(x[j], mean, hubRange);
-      const typical = Math.log(1 - hubShare) + logNegativeBinomial(x[j], shape, mean);
+      const hub = logHub + hubAt.marginal(x[j], logFactorial[j]);
+      const typical = logTypical + typicalAt(x[j], logFactorial[j]);
       hubProbability[j] = 1 / (1 + Math.exp(typical - hub));
     }
     let weight = 0;
@@ -230,9 +269,10 @@ export function fitPopularity(x: ArrayLike<number>): Popularity {
     let best = Number.NEGATIVE_INFINITY;
     let nextShape = shape;
     for (let g = 0; g < G; g++) {
+      const at = negativeBinomialAt(grid[g], nextMean);
       let log = 0;
       for (let j = 0; j < n; j++) {
-        log += (1 - hubProbability[j]) * logNegativeBinomial(x[j], grid[g], nextMean);
+        log += (1 - hubProbability[j]) * at(x[j], logFactorial[j]);
       }
       if (log > best) {
         best = log;
@@ -358,21 +398,108 @@ export function logDirichletMultinomial(x: ArrayLike<number>, a: ArrayLike<numbe
  * without the multinomial coefficient (it does not depend on α). Unobserved cells cancel.
  */
 function rowLogLikelihood(
-  counts: CountMatrix,
+  rowPtr: Int32Array,
+  colIdx: Int32Array,
   effective: Float64Array,
   i: number,
   total: number,
   alpha: number,
+  logGammaAlpha: number,
   profile: Float64Array,
   base: number,
 ): number {
   const scale = alpha / (1 - profile[base + i]);
-  let sum = logGamma(alpha) - logGamma(total + alpha);
-  for (let k = counts.rowPtr[i]; k < counts.rowPtr[i + 1]; k++) {
-    const a = scale * profile[base + counts.colIdx[k]];
+  let sum = logGammaAlpha - logGamma(total + alpha);
+  for (let k = rowPtr[i]; k < rowPtr[i + 1]; k++) {
+    const a = scale * profile[base + colIdx[k]];
     sum += logGamma(effective[k] + a) - logGamma(a);
   }
   return sum;
+}
+
+/**
+ * What the strength posterior of the rows needs in one pass (typed arrays only, so it crosses to
+ * worker threads): the rows' effective counts and totals, the strength grid with lnΓ(α) and ln α
+ * of each point, and each group's profile.
+ */
+export interface StrengthRowsTask {
+  readonly n: number;
+  readonly rowPtr: Int32Array;
+  readonly colIdx: Int32Array;
+  readonly effective: Float64Array;
+  readonly rowTotals: Float64Array;
+  readonly grid: Float64Array;
+  readonly logGammaGrid: Float64Array;
+  readonly logOfGrid: Float64Array;
+  readonly profile: Float64Array;
+  readonly profileOf: Int32Array;
+}
+
+/**
+ * Computes every row of `task` into `cumulative` (n × grid) and `strength` (n) elsewhere (the
+ * CLI: over the worker pool, by `strengthRows` on ranges of rows, so the same numbers); false
+ * when it cannot, and the rows are computed here.
+ */
+export type StrengthRowsRunner = (
+  task: StrengthRowsTask,
+  cumulative: Float64Array,
+  strength: Float64Array,
+) => boolean;
+
+/**
+ * Rows [from, to) of one pass: each row's posterior over the strength grid (its Pólya likelihood
+ * at every grid point, log-sum-exp), as cumulative weights at `cumulative[i·G + g]`, and α_i, its
+ * geometric posterior mean, at `strength[i]`. Rows are independent, so ranges can be computed
+ * anywhere in any order with the same result.
+ */
+export function strengthRows(
+  task: StrengthRowsTask,
+  from: number,
+  to: number,
+  cumulative: Float64Array,
+  strength: Float64Array,
+): void {
+  const { n, rowPtr, colIdx, effective, rowTotals, grid, logGammaGrid, logOfGrid, profile } = task;
+  const G = grid.length;
+  const logs = new Float64Array(G);
+  for (let i = from; i < to; i++) {
+    const base = task.profileOf[i] * n;
+    let max = Number.NEGATIVE_INFINITY;
+    for (let g = 0; g < G; g++) {
+      // A silent row's likelihood is flat: its posterior is the grid prior.
+      const log =
+        rowTotals[i] > 0
+          ? rowLogLikelihood(
+              rowPtr,
+              colIdx,
+              effective,
+              i,
+              rowTotals[i],
+              grid[g],
+              logGammaGrid[g],
+              profile,
+              base,
+            )
+          : 0;
+      logs[g] = log;
+      if (log > max) max = log;
+    }
+    let total = 0;
+    let logMean = 0;
+    for (let g = 0; g < G; g++) {
+      const w = Math.exp(logs[g] - max);
+      logs[g] = w;
+      total += w;
+      logMean += w * logOfGrid[g];
+    }
+    let running = 0;
+    for (let g = 0; g < G; g++) {
+      running += logs[g] / total;
+      cumulative[i * G + g] = running;
+    }
+    cumulative[i * G + G - 1] = 1;
+    strength[i] = Math.exp(logMean / total);
+  }
 }
 
 /**
@@ -384,6 +511,7 @@ export function buildAttentionPrior(
   counts: CountMatrix,
   background: Background,
   groupOf?: Int32Array,
+  strengthRowsElsewhere?: StrengthRowsRunner,
 ): AttentionPrior {
   checkBackground(background);
   const n = counts.members.length;
@@ -406,45 +534,33 @@ export function buildAttentionPrior(
   strength.fill(G === 1 ? grid[0] : Math.sqrt(grid[0] * grid[G - 1]));
   let posterior: ProfilePosterior | null = null;
   const passes = G === 1 ? 1 : PRIOR_DEFAULTS.passes;
-  const logs = new Float64Array(G);
+  // lnΓ(α) and ln α of each grid point, the same for every row.
+  const logGammaGrid = G === 1 ? new Float64Array(1) : grid.map(logGamma);
+  const logOfGrid = grid.map(Math.log);
   for (let pass = 0; pass < passes; pass++) {
     posterior = profilePosterior(
       receivedCounts(counts, effective, rowTotals, strength, groupIndex, groups),
       n,
       groups,
     );
-    const profile = posterior.profile;
-    for (let i = 0; i < n; i++) {
-      if (G === 1) {
-        cumulative[i] = 1;
-        continue;
-      }
-      const base = groupIndex[i] * n;
-      let max = Number.NEGATIVE_INFINITY;
-      for (let g = 0; g < G; g++) {
-        // A silent row's likelihood is flat: its posterior is the grid prior.
-        const log =
-          rowTotals[i] > 0
-            ? rowLogLikelihood(counts, effective, i, rowTotals[i], grid[g], profile, base)
-            : 0;
-        logs[g] = log;
-        if (log > max) max = log;
-      }
-      let total = 0;
-      let logMean = 0;
-      for (let g = 0; g < G; g++) {
-        const w = Math.exp(logs[g] - max);
-        logs[g] = w;
-        total += w;
-        logMean += w * Math.log(grid[g]);
-      }
-      let running = 0;
-      for (let g = 0; g < G; g++) {
-        running += logs[g] / total;
-        cumulative[i * G + g] = running;
-      }
-      cumulative[i * G + G - 1] = 1;
-      strength[i] = Math.exp(logMean / total);
+    if (G === 1) {
+      cumulative.fill(1);
+      continue;
+    }
+    const task: StrengthRowsTask = {
+      n,
+      rowPtr: counts.rowPtr,
+      colIdx: counts.colIdx,
+      effective,
+      rowTotals,
+      grid,
+      logGammaGrid,
+      logOfGrid,
+      profile: posterior.profile,
+      profileOf: groupIndex,
+    };
+    if (!(strengthRowsElsewhere?.(task, cumulative, strength) ?? false)) {
+      strengthRows(task, 0, n, cumulative, strength);
     }
   }
   if (posterior === null) throw new Error("unreachable: no prior pass ran");

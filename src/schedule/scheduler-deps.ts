@@ -69,4 +69,9 @@ export interface SchedulerDeps {
   readonly sendToFacilitators?: (channel: string, message: OutgoingMessage) => Promise<void>;
   readonly leaseMs?: number;
   readonly lookbackMs?: number;
+  /**
+   * Channels a pass works on at once (default 1): with a worker pool, one job's analysis runs
+   * while another waits on the store or the platform, so a lone replica can use every worker.
+   */
+  readonly jobs?: number;
 }

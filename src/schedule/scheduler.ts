@@ -40,10 +40,14 @@ import {
 import { digestPeriod, HOUR_MS, hourStart, notePeriod } from "./slot-period.js";
 import type { MissedEntry, PostKind, SkipReason, SlotRef, TickReport } from "./tick-report.js";
 
+/** Most channels one pass works on at once. */
+const MAX_JOBS = 64;
+
 export class Scheduler {
   private readonly deps: SchedulerDeps;
   private readonly leaseMs: number;
   private readonly lookbackMs: number;
+  private readonly jobs: number;
   /** Per channel, the UTC hour whose note this replica has evaluated. */
   private readonly noteHours = new Map<string, number>();
   private timer: ReturnType<typeof setInterval> | null = null;
@@ -54,6 +58,7 @@ export class Scheduler {
   constructor(deps: SchedulerDeps) {
     const leaseMs = deps.leaseMs ?? DEFAULT_LEASE_MS;
     const lookbackMs = deps.lookbackMs ?? DEFAULT_LOOKBACK_MS;
+    const jobs = deps.jobs ?? 1;
     if (!(leaseMs > 0) || !(lookbackMs >= LATE_LIMIT_MS)) {
       throw new PlumblineError(
         "ARG_BAD_VALUE",
@@ -61,9 +66,17 @@ export class Scheduler {
         { hint: "leave leaseMs and lookbackMs unset to use the defaults" },
       );
     }
+    if (!(Number.isInteger(jobs) && jobs >= 1 && jobs <= MAX_JOBS)) {
+      throw new PlumblineError(
+        "ARG_BAD_VALUE",
+        `scheduler jobs must be a whole number from 1 to ${MAX_JOBS} (got ${jobs})`,
+        { hint: "leave jobs unset for one channel at a time, or use the worker pool's size" },
+      );
+    }
     this.deps = deps;
     this.leaseMs = leaseMs;
     this.lookbackMs = lookbackMs;
+    this.jobs = jobs;
   }
 
   /** One pass over every channel: post what is due, record what was missed. */
@@ -79,19 +92,16 @@ export class Scheduler {
       settled: [],
     };
     const channels = this.walkOrder((await this.deps.store.listChannels()).map((c) => c.channel));
-    for (const channel of channels) {
-      let settings: ChannelSettings;
-      try {
-        settings = await this.deps.readSettings(channel);
-      } catch (error) {
-        this.fail(report, { channel, kind: "settings", period: null }, error);
-        continue;
-      }
-      await this.runDigests(channel, settings, at, report);
-      await this.runDuePosts(channel, at, report);
-      if (this.deps.clock.now() - this.lastSweep >= this.leaseMs / 4) await this.takeOver(report);
-      await this.runNote(channel, settings, at, report);
-    }
+    // `jobs` lanes take the next channel of the walk as each finishes its last. Every lane runs to
+    // its end before the pass goes on, even when one fails, so passes never overlap.
+    let next = 0;
+    const lane = async () => {
+      while (next < channels.length) await this.runChannel(channels[next++], at, report);
+    };
+    const lanes = await Promise.allSettled(
+      Array.from({ length: Math.min(this.jobs, channels.length) }, lane),
+    );
+    for (const result of lanes) if (result.status === "rejected") throw result.reason;
     await this.settleUnknown(report);
     await this.takeOver(report);
     const now = this.deps.clock.now();
@@ -104,6 +114,21 @@ export class Scheduler {
       this.missed(report, claim, missReasonOf(claim));
     }
     return report;
+  }
+
+  /** One channel of a pass: its due digests, due posts and note, with a takeover sweep between. */
+  private async runChannel(channel: string, at: number, report: TickReport): Promise<void> {
+    let settings: ChannelSettings;
+    try {
+      settings = await this.deps.readSettings(channel);
+    } catch (error) {
+      this.fail(report, { channel, kind: "settings", period: null }, error);
+      return;
+    }
+    await this.runDigests(channel, settings, at, report);
+    await this.runDuePosts(channel, at, report);
+    if (this.deps.clock.now() - this.lastSweep >= this.leaseMs / 4) await this.takeOver(report);
+    await this.runNote(channel, settings, at, report);
   }
 
   /**

@@ -69,6 +69,33 @@ describe("worker pool", () => {
     });
   }
 
+  for (const callerTakes of [false, true]) {
+    it(`shares the prior's strength rows with 2 workers (caller takes chunks: ${callerTakes}), byte-identical JSON`, async () => {
+      pool = new WorkerPool({ size: 2, threads: "always" });
+      await Promise.all(jobs.slice(0, 2).map((job) => pool?.run(job))); // both workers loaded
+      let shared = 0;
+      const report = runJob(jobs[2], undefined, undefined, (task, cumulative, strength) => {
+        const done = pool?.strengthRowsSync(task, cumulative, strength, callerTakes) ?? false;
+        if (done) shared++;
+        return done;
+      });
+      expect(shared).toBe(2); // both passes of the prior went through the pool
+      expect(JSON.stringify(report)).toBe(expected[2]);
+    });
+  }
+
+  it("leaves the strength rows to the caller when no worker is up", () => {
+    pool = new WorkerPool({ size: 2 });
+    let answers: boolean[] = [];
+    const report = runJob(jobs[0], undefined, undefined, (task, cumulative, strength) => {
+      const done = pool?.strengthRowsSync(task, cumulative, strength) ?? true;
+      answers = [...answers, done];
+      return done;
+    });
+    expect(answers).toEqual([false, false]);
+    expect(JSON.stringify(report)).toBe(expected[0]);
+  });
+
   it("tells /readyz whether it can run analyses: up once warm, down once closed", async () => {
     pool = new WorkerPool({ size: 1, threads: "always" });
     expect(() => pool?.assertUp()).toThrow(/no analysis worker/);

@@ -17,6 +17,7 @@ import { ingest } from "../../src/ingest/ingest.js";
 import { DEFAULT_DEDUPE_DAYS, DEFAULT_RETENTION_DAYS, purge } from "../../src/ingest/purge.js";
 import type { Store } from "../../src/ports/store.js";
 import { createMemoryStore } from "../../src/store/memory-store.js";
+import { makeConsent } from "../attention/ledger-builders.js";
 
 const KEY = "purge-test-key-0123456789abcdef0123456789";
 const T0 = Date.UTC(2026, 10, 2, 9, 0, 0);
@@ -32,13 +33,6 @@ async function store(): Promise<Store> {
   return s;
 }
 
-const consent = (member: string, at = T0): ChatEvent => ({
-  type: "consent",
-  at,
-  channel: "c1",
-  member,
-  level: "counted",
-});
 const message = (id: string, at: number): ChatEvent => ({
   type: "message",
   at,
@@ -55,7 +49,7 @@ describe("purge at its edges (DESIGN.md §7: 91 days of ledger, 7 days of delive
 
   it("a message exactly 91 days old stays; one a millisecond older goes", async () => {
     const s = await store();
-    await ingest(s, consent("U1"), "k0", { receivedAt: T0 });
+    await ingest(s, makeConsent("U1", "counted"), "k0", { receivedAt: T0 });
     const now = T0 + 200 * DAY_MS;
     const edge = now - 91 * DAY_MS;
     await ingest(s, message("edge", edge), "k1", { receivedAt: now });
@@ -68,18 +62,22 @@ describe("purge at its edges (DESIGN.md §7: 91 days of ledger, 7 days of delive
   it("a delivery key received exactly 7 days ago stays (a redelivery is still a duplicate)", async () => {
     const s = await store();
     const now = T0 + 30 * DAY_MS;
-    await ingest(s, consent("U1"), "edge", { receivedAt: now - 7 * DAY_MS });
-    await ingest(s, consent("U2"), "older", { receivedAt: now - 7 * DAY_MS - 1 });
+    await ingest(s, makeConsent("U1", "counted"), "edge", { receivedAt: now - 7 * DAY_MS });
+    await ingest(s, makeConsent("U2", "counted"), "older", { receivedAt: now - 7 * DAY_MS - 1 });
     const counts = await purge(s, { now });
     expect(counts.deliveries).toBe(1);
-    expect((await ingest(s, consent("U1"), "edge", { receivedAt: now })).applied).toBe(false);
-    expect((await ingest(s, consent("U2"), "older", { receivedAt: now })).applied).toBe(true);
+    expect(
+      (await ingest(s, makeConsent("U1", "counted"), "edge", { receivedAt: now })).applied,
+    ).toBe(false);
+    expect(
+      (await ingest(s, makeConsent("U2", "counted"), "older", { receivedAt: now })).applied,
+    ).toBe(true);
   });
 
   it("given retention and dedupe days are used in place of the defaults", async () => {
     const s = await store();
     const now = T0 + 200 * DAY_MS;
-    await ingest(s, consent("U1"), "k0", { receivedAt: now - 3 * DAY_MS });
+    await ingest(s, makeConsent("U1", "counted"), "k0", { receivedAt: now - 3 * DAY_MS });
     await ingest(s, message("m10", now - 10 * DAY_MS), "k1", { receivedAt: now - 1 * DAY_MS });
     await ingest(s, message("m4", now - 4 * DAY_MS), "k2", { receivedAt: now - 1 * DAY_MS });
     const counts = await purge(s, { now, retentionDays: 5, dedupeDays: 2 });
@@ -134,7 +132,7 @@ describe("log delivery keys", () => {
 
   it("a message's key is its channel and id; another event's is the SHA-256 of its canonical JSON", () => {
     expect(logDeliveryKey(message("m7", T0))).toBe("log:msg:c1:m7");
-    const event = consent("U9");
+    const event = makeConsent("U9", "counted");
     const text = `{"at":${T0},"channel":"c1","level":"counted","member":"U9","type":"consent"}`;
     expect(logDeliveryKey(event)).toBe(
       `log:evt:${createHash("sha256").update(text).digest("hex")}`,
@@ -142,6 +140,8 @@ describe("log delivery keys", () => {
     // The same event with its fields in another order has the same key; another event does not.
     const reordered = { member: "U9", level: "counted", type: "consent", channel: "c1", at: T0 };
     expect(logDeliveryKey(reordered as ChatEvent)).toBe(logDeliveryKey(event));
-    expect(logDeliveryKey(consent("U9", T0 + 1))).not.toBe(logDeliveryKey(event));
+    expect(logDeliveryKey(makeConsent("U9", "counted", { at: T0 + 1 }))).not.toBe(
+      logDeliveryKey(event),
+    );
   });
 });

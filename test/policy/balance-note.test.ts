@@ -170,6 +170,18 @@ describe("parseBalanceNoteState", () => {
     expect(parseBalanceNoteState({ version: 1, armed: "yes", lastNoteAt: null })).toBeNull();
     expect(parseBalanceNoteState({ version: 1, armed: true, lastNoteAt: "2026" })).toBeNull();
   });
+
+  it("rejects a last-note time that is a number but not a finite one", () => {
+    // JSON cannot carry these, but a store that keeps the object as is (structured clone) can.
+    for (const lastNoteAt of [Number.POSITIVE_INFINITY, Number.NEGATIVE_INFINITY, Number.NaN]) {
+      expect(parseBalanceNoteState({ version: 1, armed: true, lastNoteAt })).toBeNull();
+    }
+    expect(parseBalanceNoteState({ version: 1, armed: true, lastNoteAt: 0 })).toEqual({
+      version: 1,
+      armed: true,
+      lastNoteAt: 0,
+    });
+  });
 });
 
 describe("the policy on reports from the analysis", () => {

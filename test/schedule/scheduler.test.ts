@@ -453,6 +453,70 @@ describe("several replicas on one SQLite file", () => {
   });
 });
 
+describe("several channels at once in one replica (jobs)", () => {
+  // DESIGN.md §8: one post per (channel, kind, period) across replicas; `jobs` only lets one pass
+  // overlap a job's analysis with another's store and platform waits.
+  async function overlapOf(jobs: number | undefined, channels: string[]) {
+    const store = await memoryStore(...channels);
+    const clock = new ManualClock(Date.UTC(2026, 10, 2, 9, 0) + MINUTE);
+    let inFlight = 0;
+    let most = 0;
+    const { scheduler, platform } = makeScheduler({
+      store,
+      clock,
+      ...(jobs === undefined ? {} : { jobs }),
+      composeDigest: async (channel) => {
+        inFlight++;
+        most = Math.max(most, inFlight);
+        // A compose that waits (as on the store and a worker): other lanes may run meanwhile.
+        for (let i = 0; i < 3; i++) await new Promise((resolve) => setImmediate(resolve));
+        inFlight--;
+        return message(`digest ${channel}`);
+      },
+    });
+    const report = await scheduler.tick();
+    return { most, inFlight, report, platform };
+  }
+
+  it("composes up to `jobs` digests at once and posts each channel once", async () => {
+    const channels = ["c1", "c2", "c3", "c4", "c5", "c6", "c7"];
+    const { most, inFlight, report, platform } = await overlapOf(3, channels);
+    expect(most).toBe(3);
+    expect(inFlight).toBe(0); // the pass ends only when every lane has finished
+    expect(report.posted.map((p) => p.channel).sort()).toEqual(channels);
+    expect(platform.posts.map((p) => p.channel).sort()).toEqual(channels);
+  });
+
+  it("works on one channel at a time by default", async () => {
+    const { most, report } = await overlapOf(undefined, ["c1", "c2", "c3"]);
+    expect(most).toBe(1);
+    expect(report.posted).toHaveLength(3);
+  });
+
+  it("two replicas with three lanes each post every slot of a burst once", async () => {
+    const channels = Array.from({ length: 40 }, (_, i) => `c${String(i).padStart(2, "0")}`);
+    const store = await memoryStore(...channels);
+    const clock = new ManualClock(Date.UTC(2026, 10, 2, 9, 0) + MINUTE);
+    const replicas = ["a", "b"].map((id) =>
+      makeScheduler({ store, clock, replicaId: id, jobs: 3 }),
+    );
+    const reports = await Promise.all(replicas.map((r) => r.scheduler.tick()));
+    const posted = reports.flatMap((r) => r.posted.map((p) => p.channel)).sort();
+    expect(posted).toEqual(channels);
+    expect(replicas.flatMap((r) => r.platform.posts)).toHaveLength(40);
+  });
+
+  it("refuses a number of jobs that is not a whole number from 1 to 64", async () => {
+    const store = await memoryStore("c1");
+    const clock = new ManualClock(0);
+    for (const jobs of [0, 1.5, 65, Number.NaN]) {
+      expect(() => makeScheduler({ store, clock, jobs })).toThrow(
+        expect.objectContaining({ code: "ARG_BAD_VALUE" }),
+      );
+    }
+  });
+});
+
 /** A store whose claim reads see nothing, as if every read came before the other replica's insert. */
 function blind(store: Store): Store {
   return new Proxy(store, {

@@ -1,6 +1,6 @@
 /**
- * Issue 11's store findings on SQLite files: the shared safety suite, plus what only a file can
- * show — the key file beside the database (missing → refused, generated only for an empty store),
+ * Issue 11's store findings on SQLite files: what only a file can show (the shared safety suite
+ * runs on SQLite in safety-sqlite-contract.test.ts) — the key file beside the database (missing → refused, generated only for an empty store),
  * every byte of the database, WAL and shared-memory files after `leave` (secure_delete,
  * sqlite.org/pragma.html#pragma_secure_delete), a read-only file, and STORE_FULL's count.
  */
@@ -24,37 +24,12 @@ import type { ChatEvent } from "../../src/domain/events.js";
 import { leave } from "../../src/ingest/erase.js";
 import { type Delivery, ingest, ingestBatch } from "../../src/ingest/ingest.js";
 import { openSqliteStore, openStore } from "../../src/store/open-store.js";
-import { safetyContract } from "./safety-contract.js";
+import { makeConsent } from "../attention/ledger-builders.js";
 import { TEST_KEY } from "./test-key.js";
 
 const dir = mkdtempSync(join(tmpdir(), "plumbline-safety-"));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
-let n = 0;
 const T0 = Date.UTC(2026, 10, 2, 9, 0, 0);
-
-function dumpFile(path: string): string {
-  const raw = new Database(path, { readonly: true });
-  try {
-    const tables = raw.prepare("SELECT name FROM sqlite_master WHERE type = 'table'").all() as {
-      name: string;
-    }[];
-    return tables
-      .map((t) => `${t.name}: ${JSON.stringify(raw.prepare(`SELECT * FROM "${t.name}"`).all())}`)
-      .join("\n");
-  } finally {
-    raw.close();
-  }
-}
-
-safetyContract("sqlite file", async () => {
-  const path = join(dir, `safety-${n++}.db`);
-  return {
-    childArgs: ["sqlite", path],
-    open: (options) => openSqliteStore(path, options),
-    dump: async () => dumpFile(path),
-    cleanup: async () => undefined,
-  };
-});
 
 function io(env: Record<string, string | undefined> = {}) {
   const out: string[] = [];
@@ -74,17 +49,9 @@ function writeLog(name: string, events: readonly ChatEvent[]): string {
   return name;
 }
 
-const consent = (member: string, at = T0): ChatEvent => ({
-  type: "consent",
-  at,
-  channel: "c1",
-  member,
-  level: "counted",
-});
-
 describe("SQLite key file", () => {
   it("a deleted key file is refused (exit 2) naming the file; restoring it works again", async () => {
-    const log = writeLog("a.jsonl", [consent("U1"), consent("U2")]);
+    const log = writeLog("a.jsonl", [makeConsent("U1", "counted"), makeConsent("U2", "counted")]);
     const first = io({});
     expect(await main(["ingest", log, "--db", "sqlite:./k.db"], first.io)).toBe(0);
     const keyFile = join(dir, "k.db.key");
@@ -109,7 +76,7 @@ describe("SQLite key file", () => {
   });
 
   it("a different PLUMBLINE_ID_KEY_FILE is refused naming that file", async () => {
-    const log = writeLog("b.jsonl", [consent("U1")]);
+    const log = writeLog("b.jsonl", [makeConsent("U1", "counted")]);
     expect(await main(["ingest", log, "--db", "sqlite:./f.db"], io({}).io)).toBe(0);
     writeFileSync(join(dir, "wrong.key"), `${TEST_KEY}-wrong\n`);
     const run = io({ PLUMBLINE_ID_KEY_FILE: "wrong.key" });
@@ -119,7 +86,9 @@ describe("SQLite key file", () => {
   });
 
   it("plumbline rekey rotates the key file; the old key is refused and every event still seen", async () => {
-    const events = Array.from({ length: 40 }, (_, i) => consent(`U${i}`, T0 + i));
+    const events: ChatEvent[] = Array.from({ length: 40 }, (_, i) =>
+      makeConsent(`U${i}`, "counted", { at: T0 + i }),
+    );
     events.push({
       type: "message",
       at: T0 + 100,
@@ -154,7 +123,7 @@ describe("serve and the id key", () => {
   it("serve refuses to start with a key other than the store's, naming the variable", async () => {
     const db = join(dir, "serve.db");
     const store = await openSqliteStore(db, { idKey: TEST_KEY });
-    await ingest(store, consent("U1"), "k1");
+    await ingest(store, makeConsent("U1", "counted"), "k1");
     await store.close();
     const env = {
       DATABASE_URL: `sqlite:${db}`,
@@ -236,7 +205,7 @@ describe("SQLite clear errors", () => {
   it("a read-only database gives STORE_READ_ONLY naming the file (ingest and analyze --db)", async () => {
     const path = join(dir, "ro", "ro.db");
     const store = await openStore(`sqlite:${path}`, { idKey: TEST_KEY });
-    await ingest(store, consent("U1"), "k1");
+    await ingest(store, makeConsent("U1", "counted"), "k1");
     await store.close();
     chmodSync(path, 0o444);
     chmodSync(join(dir, "ro"), 0o555);
@@ -266,7 +235,7 @@ describe("SQLite clear errors", () => {
     const path = join(dir, "full.db");
     const store = await openSqliteStore(path, { idKey: TEST_KEY });
     const members = Array.from({ length: 20 }, (_, i) => `U${i}`);
-    for (const m of members) await ingest(store, consent(m), `c-${m}`);
+    for (const m of members) await ingest(store, makeConsent(m, "counted"), `c-${m}`);
     const [{ page_count: pages }] = store.pragma("page_count") as { page_count: number }[];
     store.pragma(`max_page_count = ${pages + 40}`);
     const deliveries: Delivery[] = Array.from({ length: 5000 }, (_, i) => ({

@@ -13,6 +13,7 @@ import { eraseChannel, eraseWorkspace, leave } from "../../src/ingest/erase.js";
 import { ingest, ingestBatch } from "../../src/ingest/ingest.js";
 import { purge } from "../../src/ingest/purge.js";
 import { missedMarker, type Store } from "../../src/ports/store.js";
+import { makeConsent } from "../attention/ledger-builders.js";
 import { randomDeliveries } from "../ingest/random-events.js";
 
 export interface StoreFixture {
@@ -30,14 +31,8 @@ export interface StoreFixture {
 
 const T0 = Date.UTC(2026, 10, 2, 9, 0, 0);
 const c = "c1";
-const consent = (member: string, level: "off" | "counted" | "named", at = T0): ChatEvent => ({
-  type: "consent",
-  at,
-  channel: c,
-  member,
-  level,
-  notice: "v1",
-});
+/** The consent events here carry a notice version, as the bot records one. */
+const NOTICE = { notice: "v1" } as const;
 const msg = (id: string, author: string, at: number, extra: object = {}): ChatEvent => ({
   type: "message",
   at,
@@ -99,10 +94,14 @@ export function storeContract(name: string, makeStore: () => Promise<StoreFixtur
     });
 
     it("applies a delivery once and reports the repeat", async () => {
-      expect(await ingest(store, consent("U1", "counted"), "a", { receivedAt: T0 })).toEqual({
+      expect(
+        await ingest(store, makeConsent("U1", "counted", NOTICE), "a", { receivedAt: T0 }),
+      ).toEqual({
         applied: true,
       });
-      expect(await ingest(store, consent("U1", "counted"), "a", { receivedAt: T0 })).toEqual({
+      expect(
+        await ingest(store, makeConsent("U1", "counted", NOTICE), "a", { receivedAt: T0 }),
+      ).toEqual({
         applied: false,
       });
       expect((await store.loadSnapshot(c)).consent).toHaveLength(1);
@@ -110,8 +109,8 @@ export function storeContract(name: string, makeStore: () => Promise<StoreFixtur
 
     it("rule 2: stores only consenting authors, resolves parents, filters mentions", async () => {
       const events = [
-        consent("U1", "named"),
-        consent("U2", "counted"),
+        makeConsent("U1", "named", NOTICE),
+        makeConsent("U2", "counted", NOTICE),
         msg("m0", "U3", T0 + 1, { mentions: ["U1"] }), // U3 off: nothing stored
         msg("m1", "U1", T0 + 2, { mentions: ["U2", "U2", "U1", "U3"] }),
         msg("m2", "U2", T0 + 3, { parent: "m1" }),
@@ -132,10 +131,10 @@ export function storeContract(name: string, makeStore: () => Promise<StoreFixtur
 
     it("rule 1: consent is read at the event's time; a late change with an earlier time counts", async () => {
       const events = [
-        consent("U1", "counted", T0 + 10),
+        makeConsent("U1", "counted", { ...NOTICE, at: T0 + 10 }),
         msg("m1", "U1", T0 + 5), // before U1 opted in: dropped
         msg("m2", "U1", T0 + 20, { mentions: ["U2"] }), // U2 not yet consenting
-        consent("U2", "counted", T0 + 1), // arrives late, time before m2
+        makeConsent("U2", "counted", { ...NOTICE, at: T0 + 1 }), // arrives late, time before m2
         msg("m3", "U1", T0 + 30, { mentions: ["U2"] }),
         { type: "edit", at: T0 + 40, channel: c, id: "m2", mentions: ["U2"] } as ChatEvent,
       ];
@@ -150,9 +149,9 @@ export function storeContract(name: string, makeStore: () => Promise<StoreFixtur
 
     it("rules 3–5: edits, deletes, undeletes and groups", async () => {
       const events: ChatEvent[] = [
-        consent("U1", "named"),
-        consent("U2", "named"),
-        consent("U3", "named"),
+        makeConsent("U1", "named", NOTICE),
+        makeConsent("U2", "named", NOTICE),
+        makeConsent("U3", "named", NOTICE),
         msg("m1", "U1", T0 + 1, { mentions: ["U2"] }),
         { type: "edit", at: T0 + 2, channel: c, id: "m1", mentions: ["U3", "U1"] },
         { type: "edit", at: T0 + 2, channel: c, id: "nope", mentions: ["U3"] },
@@ -175,7 +174,7 @@ export function storeContract(name: string, makeStore: () => Promise<StoreFixtur
 
     it("keeps format periods in applied order, like group labels, and erases them with the channel", async () => {
       const events: ChatEvent[] = [
-        consent("U1", "named"),
+        makeConsent("U1", "named", NOTICE),
         { type: "format", at: T0 + 1, channel: c, format: "written-first" },
         msg("m1", "U1", T0 + 2),
         { type: "format", at: T0 + 3, channel: c, format: null },
@@ -195,13 +194,18 @@ export function storeContract(name: string, makeStore: () => Promise<StoreFixtur
     });
 
     it("keeps a platform id only while the member's consent is named", async () => {
-      await feed(store, [consent("U1", "named"), consent("U1", "counted", T0 + 1)]);
+      await feed(store, [
+        makeConsent("U1", "named", NOTICE),
+        makeConsent("U1", "counted", { ...NOTICE, at: T0 + 1 }),
+      ]);
       const snap = await store.loadSnapshot(c);
       expect(snap.consent.map((x) => x.member)).toEqual([
         `~${store.memberKey("U1")}`,
         `~${store.memberKey("U1")}`,
       ]);
-      await ingest(store, consent("U1", "named", T0 + 2), "n", { receivedAt: T0 });
+      await ingest(store, makeConsent("U1", "named", { ...NOTICE, at: T0 + 2 }), "n", {
+        receivedAt: T0,
+      });
       expect((await store.loadSnapshot(c)).consent.map((x) => x.member)).toEqual([
         "U1",
         "U1",
@@ -237,21 +241,23 @@ export function storeContract(name: string, makeStore: () => Promise<StoreFixtur
         }),
       ).rejects.toThrow("boom");
       expect((await store.loadSnapshot(c)).consent).toEqual([]);
-      expect(await ingest(store, consent("U1", "counted"), "x", { receivedAt: T0 })).toEqual({
+      expect(
+        await ingest(store, makeConsent("U1", "counted", NOTICE), "x", { receivedAt: T0 }),
+      ).toEqual({
         applied: true,
       });
     });
 
     it("leave erases every row naming the member in that channel only", async () => {
       const events: ChatEvent[] = [
-        consent("U1", "named"),
-        consent("U2", "named"),
-        consent("U3", "counted"),
+        makeConsent("U1", "named", NOTICE),
+        makeConsent("U2", "named", NOTICE),
+        makeConsent("U3", "counted", NOTICE),
         msg("m1", "U1", T0 + 1, { mentions: ["U2", "U3"] }),
         msg("m2", "U2", T0 + 2, { parent: "m1", mentions: ["U1", "U3"] }),
         msg("m3", "U3", T0 + 3, { mentions: ["U1"] }),
         { type: "group", at: T0 + 4, channel: c, member: "U1", group: "north" },
-        { ...consent("U1", "named"), channel: "c2" },
+        makeConsent("U1", "named", { ...NOTICE, channel: "c2" }),
       ];
       await feed(store, events);
       await store.addFacilitator(c, "U1");
@@ -294,7 +300,7 @@ export function storeContract(name: string, makeStore: () => Promise<StoreFixtur
       await store.registerChannel("c2", "w1");
       await store.registerChannel("c3", "w2");
       for (const ch of ["c1", "c2", "c3"]) {
-        await ingest(store, { ...consent("U1", "named"), channel: ch }, `k-${ch}`, {
+        await ingest(store, makeConsent("U1", "named", { ...NOTICE, channel: ch }), `k-${ch}`, {
           receivedAt: T0,
         });
         await store.writeChannelState(ch, "settings", { windowDays: 14 });
@@ -316,7 +322,7 @@ export function storeContract(name: string, makeStore: () => Promise<StoreFixtur
     });
 
     it("purges ledger rows past retention and delivery keys past the dedupe window", async () => {
-      await ingest(store, consent("U1", "counted"), "k1", { receivedAt: T0 });
+      await ingest(store, makeConsent("U1", "counted", NOTICE), "k1", { receivedAt: T0 });
       await ingest(store, msg("old", "U1", T0 + 1), "k2", { receivedAt: T0 });
       await ingest(store, msg("new", "U1", T0 + 50 * DAY_MS), "k3", {
         receivedAt: T0 + 50 * DAY_MS,
@@ -342,7 +348,7 @@ export function storeContract(name: string, makeStore: () => Promise<StoreFixtur
       });
       await store.writeChannelState(c, "balance-note", null);
       expect(await store.readChannelState(c, "balance-note")).toBeNull();
-      await ingest(store, consent("F1", "named"), "f", { receivedAt: T0 });
+      await ingest(store, makeConsent("F1", "named", NOTICE), "f", { receivedAt: T0 });
       await store.addFacilitator(c, "F1");
       await store.addFacilitator(c, "F2");
       await store.addFacilitator(c, "F2");
@@ -354,7 +360,7 @@ export function storeContract(name: string, makeStore: () => Promise<StoreFixtur
 
     it("keeps a facilitator's platform id with the role, whatever their consent (DESIGN.md §7)", async () => {
       // F3 joined counted: their consent keeps no platform id, the role does.
-      await ingest(store, consent("F3", "counted"), "f3", { receivedAt: T0 });
+      await ingest(store, makeConsent("F3", "counted", NOTICE), "f3", { receivedAt: T0 });
       await store.addFacilitator(c, "F3");
       await store.addFacilitator(c, "F4");
       expect(await store.facilitatorPlatformIds(c)).toEqual(["F3", "F4"]);

@@ -129,15 +129,9 @@ def log_hub(x, mean, rng_):
     return mx[:, 0] + np.log(np.exp(logs - mx).sum(axis=1) / (HUB_NODES - 1))
 
 
-def fit_popularity(x, hub_share=0.05, hub_range=1000.0):
+def popularity_em(x, mean, shape, hub_share, hub_range, grid):
     n = len(x)
     p = np.zeros(n)
-    total = x.sum()
-    if not total > 0:
-        return 1000.0, 1.0, p
-    grid = np.exp(np.linspace(np.log(0.01), np.log(1000), 61))
-    mean = total / n
-    shape = 1.0
     for _ in range(20):
         pos = x > 0
         hub = np.log(hub_share) + log_hub(x, mean, hub_range)
@@ -152,6 +146,28 @@ def fit_popularity(x, hub_share=0.05, hub_range=1000.0):
         shape, mean = nshape, nmean
         if settled:
             break
+    hub = np.log(hub_share) + log_hub(x, mean, hub_range)
+    typ = np.log(1 - hub_share) + log_nb(x, shape, mean)
+    obs = np.where(x > 0, np.logaddexp(hub, typ), typ).sum()
+    return shape, mean, p, ll, obs
+
+
+def fit_popularity(x, hub_share=0.05, hub_range=1000.0, starts=1):
+    n = len(x)
+    total = x.sum()
+    if not total > 0:
+        return 1000.0, 1.0, np.zeros(n)
+    grid = np.exp(np.linspace(np.log(0.01), np.log(1000), 61))
+    best = popularity_em(x, total / n, 1.0, hub_share, hub_range, grid)
+    if starts > 1:
+        # second start: the crowd is the members at or below the median, evenly popular
+        med = np.median(x)
+        crowd = x[x <= med]
+        m0 = crowd.mean() if crowd.size and crowd.mean() > 0 else total / n
+        other = popularity_em(x, m0, grid[-1], hub_share, hub_range, grid)
+        if other[4] > best[4]:
+            best = other
+    shape, mean, p, ll, _ = best
     fit_popularity.last = (grid, ll)
     return shape, mean, p
 
@@ -167,7 +183,7 @@ def build_prior(Ce, variant):
     for _ in range(2):
         d = np.where(c > 0, np.minimum(1, (1 + strength) / np.where(c > 0, c + strength, 1)), 0)
         x = (d[:, None] * Ce).sum(axis=0)
-        beta, mu, p = fit_popularity(x, hub_share)
+        beta, mu, p = fit_popularity(x, hub_share, starts=2 if "em2" in vs else 1)
         rate = 1 + beta / mu
         u = (1 - p) * (x + beta) / rate + p * x
         bgrid, bpost = None, None
