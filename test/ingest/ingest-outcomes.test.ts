@@ -211,11 +211,18 @@ describe("ingestBatch", () => {
   it("adds up rejections of one code across batches", async () => {
     const store = await seeded();
     const flaky = failing(store, new Set(["x", "y"]), coded("STORE_TOO_LARGE"));
+    const seen: IngestTotals[] = [];
     const totals = await ingestBatch(flaky, deliveries(["x", "a", "y"]), {
       batchSize: 2,
       receivedAt: T0,
+      onBatch: (t) => seen.push(t),
     });
     expect(totals).toEqual({ applied: 1, skipped: 0, rejected: { STORE_TOO_LARGE: 2 } });
+    // The progress reports carry the rejections so far, each a copy of its moment.
+    expect(seen).toEqual([
+      { applied: 1, skipped: 0, rejected: { STORE_TOO_LARGE: 1 } },
+      { applied: 1, skipped: 0, rejected: { STORE_TOO_LARGE: 2 } },
+    ]);
   });
 
   it("STORE_FULL is restated with the count committed before it and the fix", async () => {
