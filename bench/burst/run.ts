@@ -22,8 +22,9 @@
  * --patterns P (default 50): that many channels are seeded through ingestion, the others are
  * SQL copies of them (channel i has pattern i mod P), since ingesting 1,000 channels takes more
  * than an hour on this machine.
- * --workers N (analysis threads per replica, default 0: in the replica's thread), --jobs N (the
- * scheduler's channels at once, default 1). --schema plumbline_burst_NAME names the schema (and
+ * --workers N (analysis threads per replica, 0: in the replica's thread; default the machine's
+ * parallelism, as `serve`), --jobs N (the scheduler's channels at once; default as many as
+ * workers, 1 with none). --schema plumbline_burst_NAME names the schema (and
  * fixes the store's id key by it); --seed-only seeds it and keeps it; --reuse runs on a kept one
  * without seeding (so each run can be its own invocation inside the bench lock); --keep keeps it.
  * A second table says where each run's time went (CPU of replicas, their PostgreSQL backends and
@@ -68,9 +69,12 @@ const runsWanted = option("runs", "1,2,3,3k").split(",");
 const samples = Number(option("samples", "40"));
 const templates = Number(option("patterns", "50"));
 const workspacePerMinute = Number(option("workspace-per-minute", "300"));
-/** Worker threads per replica (0: analyses in the replica's own thread) and scheduler jobs. */
-const workers = Number(option("workers", "0"));
-const jobs = Number(option("jobs", "1"));
+/**
+ * Worker threads per replica (0: analyses in the replica's own thread) and scheduler jobs; by
+ * default as `serve` runs: a pool of availableParallelism() workers and as many jobs.
+ */
+const workers = Number(option("workers", String(availableParallelism())));
+const jobs = Number(option("jobs", String(Math.max(1, workers))));
 if (!(Number.isInteger(workers) && workers >= 0 && Number.isInteger(jobs) && jobs >= 1)) {
   throw new Error("--workers must be a whole number ≥ 0 and --jobs ≥ 1");
 }
