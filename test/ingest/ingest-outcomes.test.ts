@@ -8,6 +8,7 @@
 import { describe, expect, it } from "vitest";
 import { type ErrorCode, PlumblineError } from "../../src/domain/errors.js";
 import type { ChatEvent } from "../../src/domain/events.js";
+import { leave } from "../../src/ingest/erase.js";
 import {
   type Delivery,
   type IngestTotals,
@@ -17,7 +18,7 @@ import {
 } from "../../src/ingest/ingest.js";
 import type { Store, StoreTx } from "../../src/ports/store.js";
 import { createMemoryStore } from "../../src/store/memory-store.js";
-import { makeConsent, makeMessage, T0 } from "../attention/ledger-builders.js";
+import { makeConsent, makeGroup, makeMessage, T0 } from "../attention/ledger-builders.js";
 import { TEST_KEY } from "../store/test-key.js";
 
 /** The store, with `insertMessage` throwing `failure()` for the message ids in `poison`. */
@@ -210,11 +211,18 @@ describe("ingestBatch", () => {
   it("adds up rejections of one code across batches", async () => {
     const store = await seeded();
     const flaky = failing(store, new Set(["x", "y"]), coded("STORE_TOO_LARGE"));
+    const seen: IngestTotals[] = [];
     const totals = await ingestBatch(flaky, deliveries(["x", "a", "y"]), {
       batchSize: 2,
       receivedAt: T0,
+      onBatch: (t) => seen.push(t),
     });
     expect(totals).toEqual({ applied: 1, skipped: 0, rejected: { STORE_TOO_LARGE: 2 } });
+    // The progress reports carry the rejections so far, each a copy of its moment.
+    expect(seen).toEqual([
+      { applied: 1, skipped: 0, rejected: { STORE_TOO_LARGE: 1 } },
+      { applied: 1, skipped: 0, rejected: { STORE_TOO_LARGE: 2 } },
+    ]);
   });
 
   it("STORE_FULL is restated with the count committed before it and the fix", async () => {
@@ -284,5 +292,38 @@ describe("ingestBatch", () => {
   it("sum adds the counts of every code", () => {
     expect(sum({})).toBe(0);
     expect(sum({ A: 2, B: 3 })).toBe(5);
+  });
+});
+
+describe("delivery keys: their owner and their time", () => {
+  it("a message's, consent's and group change's delivery key belongs to its member: leave erases it", async () => {
+    // DESIGN.md §7: leave deletes every row naming the member, delivery keys included. A key left
+    // behind would still be a trace of the member's activity, and would skip a later redelivery.
+    const store = await seeded();
+    const events: Delivery[] = [
+      { event: msg("m1", 1), deliveryKey: "k-m1" },
+      { event: makeGroup("U1", "north", T0 + 2), deliveryKey: "k-g1" },
+      { event: makeMessage({ id: "m2", author: "U2", at: T0 + 3 }), deliveryKey: "k-m2" },
+      { event: { type: "delete", at: T0 + 4, channel: "c1", id: "m2" }, deliveryKey: "k-d2" },
+    ];
+    await ingestBatch(store, events, { receivedAt: T0 });
+    await leave(store, "c1", "U1");
+    // U1's consent, message and group keys are gone; U2's consent and message keys stay, and the
+    // delete (which names no member) stays.
+    const counts = await store.purge({ ledgerBefore: 0, deliveriesBefore: T0 + 1 });
+    expect(counts.deliveries).toBe(3);
+    expect(await ingest(store, msg("m1", 1), "k-m1", { receivedAt: T0 })).toEqual({
+      applied: true,
+    });
+  });
+
+  it("a batch stamps its deliveries with receivedAt, also when it is replayed one by one", async () => {
+    const store = await seeded();
+    const flaky = failing(store, new Set(["bad"]), coded("STORE_TOO_LARGE"));
+    await ingestBatch(store, deliveries(["a", "b"]), { receivedAt: T0 + 5 });
+    await ingestBatch(flaky, deliveries(["c", "bad", "d"]), { receivedAt: T0 + 5 });
+    // Everything was received at T0 + 5: a cutoff just after takes every key (2 consents too).
+    const counts = await store.purge({ ledgerBefore: 0, deliveriesBefore: T0 + 6 });
+    expect(counts.deliveries).toBe(2 + 2 + 3);
   });
 });
