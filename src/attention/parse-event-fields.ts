@@ -9,6 +9,18 @@ import { LogLineError } from "../domain/errors.js";
 import type { ChatEvent, ChatEventType, ConsentLevel } from "../domain/events.js";
 import { parseIsoTime } from "./parse-iso-time.js";
 
+/** A message event while its optional fields are filled in (both readers build one). */
+interface MessageFields {
+  type: "message";
+  at: number;
+  channel: string;
+  id: string;
+  author: string;
+  parent?: string;
+  parentAuthor?: string;
+  mentions?: readonly string[];
+}
+
 /** Longest id, channel, member or label accepted. */
 export const MAX_ID_LENGTH = 256;
 
@@ -94,16 +106,7 @@ export function wellFormedEvent(record: Record<string, unknown>): ChatEvent | nu
     case "message": {
       const { id, author } = record;
       if (!isId(id) || !isId(author)) return null;
-      const event: {
-        type: "message";
-        at: number;
-        channel: string;
-        id: string;
-        author: string;
-        parent?: string;
-        parentAuthor?: string;
-        mentions?: readonly string[];
-      } = { type: "message", at, channel, id, author };
+      const event: MessageFields = { type: "message", at, channel, id, author };
       if (Object.hasOwn(record, "parent")) {
         if (!isId(record.parent)) return null;
         event.parent = record.parent;
@@ -233,16 +236,13 @@ export function checkedEvent(record: Record<string, unknown>, line: number): Cha
       return { type: eventType, at, channel, member, level: level as ConsentLevel, notice };
     }
     case "message": {
-      const event: {
-        type: "message";
-        at: number;
-        channel: string;
-        id: string;
-        author: string;
-        parent?: string;
-        parentAuthor?: string;
-        mentions?: readonly string[];
-      } = { type: eventType, at, channel, id: id("id"), author: id("author") };
+      const event: MessageFields = {
+        type: eventType,
+        at,
+        channel,
+        id: id("id"),
+        author: id("author"),
+      };
       if (has("parent")) event.parent = id("parent");
       if (has("parentAuthor")) event.parentAuthor = id("parentAuthor");
       if (has("mentions")) event.mentions = mentions();
