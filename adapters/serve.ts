@@ -18,6 +18,7 @@ import type { Clock } from "../src/ports/clock.js";
 import { systemClock } from "../src/ports/clock.js";
 import type { Logger } from "../src/ports/logger.js";
 import type { Store } from "../src/ports/store.js";
+import { MAX_JOBS } from "../src/schedule/scheduler.js";
 import { openStore } from "../src/store/open-store.js";
 import { type Bot, createBot } from "./create-bot.js";
 import type { PlatformAdapter } from "./platform-adapter.js";
@@ -138,7 +139,7 @@ export async function serve(options: ServeOptions): Promise<RunningServer> {
     reportLink: (channel, reader) => reports.linkFor(channel, reader),
     // One scheduled job per worker at a time: a lone replica's burst keeps every worker busy
     // while other jobs wait on the store or the platform (docs/burst.md).
-    scheduling: { jobs: Math.min(pool.size, 64) },
+    scheduling: { jobs: Math.min(pool.size, MAX_JOBS) },
   });
   const server = createRouteServer({
     routes: [...adapters.flatMap((a) => a.routes), reports],

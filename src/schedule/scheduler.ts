@@ -41,7 +41,7 @@ import { digestPeriod, HOUR_MS, hourStart, notePeriod } from "./slot-period.js";
 import type { MissedEntry, PostKind, SkipReason, SlotRef, TickReport } from "./tick-report.js";
 
 /** Most channels one pass works on at once. */
-const MAX_JOBS = 64;
+export const MAX_JOBS = 64;
 
 export class Scheduler {
   private readonly deps: SchedulerDeps;
