@@ -19,29 +19,8 @@ import {
 import type { Store, StoreTx } from "../../src/ports/store.js";
 import { createMemoryStore } from "../../src/store/memory-store.js";
 import { makeConsent, makeGroup, makeMessage, T0 } from "../attention/ledger-builders.js";
+import { failingInserts } from "../store/failing-store.js";
 import { TEST_KEY } from "../store/test-key.js";
-
-/** The store, with `insertMessage` throwing `failure()` for the message ids in `poison`. */
-function failing(store: Store, poison: ReadonlySet<string>, failure: () => unknown): Store {
-  return new Proxy(store, {
-    get(target, prop, receiver) {
-      if (prop === "transaction") {
-        return <T>(fn: (tx: StoreTx) => Promise<T>) =>
-          target.transaction((tx) =>
-            fn({
-              ...tx,
-              insertMessage: async (channel, message) => {
-                if (poison.has(message.id)) throw failure();
-                return tx.insertMessage(channel, message);
-              },
-            }),
-          );
-      }
-      const value = Reflect.get(target, prop, receiver);
-      return typeof value === "function" ? value.bind(target) : value;
-    },
-  });
-}
 
 const coded = (code: ErrorCode) => () => new PlumblineError(code, "injected");
 
@@ -75,7 +54,7 @@ describe("ingest: a failing store", () => {
     "%s is thrown, nothing is recorded, and the redelivery applies",
     async (code) => {
       const store = await seeded();
-      const flaky = failing(store, new Set(["m1"]), coded(code));
+      const flaky = failingInserts(store, new Set(["m1"]), coded(code));
       await expect(ingest(flaky, msg("m1"), "k1", { receivedAt: T0 })).rejects.toMatchObject({
         code,
       });
@@ -89,7 +68,7 @@ describe("ingest: a failing store", () => {
 
   it("any other code is recorded as rejected under that code, once; the key counts as seen", async () => {
     const store = await seeded();
-    const flaky = failing(store, new Set(["m1"]), coded("STORE_TOO_LARGE"));
+    const flaky = failingInserts(store, new Set(["m1"]), coded("STORE_TOO_LARGE"));
     expect(await ingest(flaky, msg("m1"), "k1", { receivedAt: T0 })).toEqual({
       applied: false,
       rejected: "STORE_TOO_LARGE",
@@ -102,7 +81,7 @@ describe("ingest: a failing store", () => {
 
   it("an error without a code is recorded as STORE_REJECTED", async () => {
     const store = await seeded();
-    const flaky = failing(store, new Set(["m1"]), () => new TypeError("injected bug"));
+    const flaky = failingInserts(store, new Set(["m1"]), () => new TypeError("injected bug"));
     expect(await ingest(flaky, msg("m1"), "k1", { receivedAt: T0 })).toEqual({
       applied: false,
       rejected: "STORE_REJECTED",
@@ -119,9 +98,11 @@ describe("ingest: a failing store", () => {
           let first = true;
           return async <T>(fn: (tx: StoreTx) => Promise<T>) => {
             try {
-              return await failing(target, new Set(["m1"]), coded("STORE_TOO_LARGE")).transaction(
-                fn,
-              );
+              return await failingInserts(
+                target,
+                new Set(["m1"]),
+                coded("STORE_TOO_LARGE"),
+              ).transaction(fn);
             } catch (error) {
               if (first) {
                 first = false;
@@ -197,7 +178,7 @@ describe("ingestBatch", () => {
   it("counts repeats as skipped, in a batch and in the replay after a rejected event", async () => {
     const store = await seeded();
     await ingest(store, msg("a", 1), "k-a", { receivedAt: T0 });
-    const flaky = failing(store, new Set(["bad"]), coded("STORE_TOO_LARGE"));
+    const flaky = failingInserts(store, new Set(["bad"]), coded("STORE_TOO_LARGE"));
     const totals = await ingestBatch(flaky, deliveries(["a", "b", "bad", "c"]), {
       receivedAt: T0,
     });
@@ -210,7 +191,7 @@ describe("ingestBatch", () => {
 
   it("adds up rejections of one code across batches", async () => {
     const store = await seeded();
-    const flaky = failing(store, new Set(["x", "y"]), coded("STORE_TOO_LARGE"));
+    const flaky = failingInserts(store, new Set(["x", "y"]), coded("STORE_TOO_LARGE"));
     const seen: IngestTotals[] = [];
     const totals = await ingestBatch(flaky, deliveries(["x", "a", "y"]), {
       batchSize: 2,
@@ -227,7 +208,7 @@ describe("ingestBatch", () => {
 
   it("STORE_FULL is restated with the count committed before it and the fix", async () => {
     const store = await seeded();
-    const full = failing(store, new Set(["d"]), coded("STORE_FULL"));
+    const full = failingInserts(store, new Set(["d"]), coded("STORE_FULL"));
     const error = await ingestBatch(full, deliveries(["a", "b", "c", "d"]), {
       batchSize: 2,
       receivedAt: T0,
@@ -247,7 +228,7 @@ describe("ingestBatch", () => {
   it("STORE_FULL after one committed event says 'was'; repeats and rejections count as committed", async () => {
     const store = await seeded();
     await ingest(store, msg("a", 1), "k-a", { receivedAt: T0 });
-    const full = failing(store, new Set(["c"]), coded("STORE_FULL"));
+    const full = failingInserts(store, new Set(["c"]), coded("STORE_FULL"));
     const one = await ingestBatch(full, deliveries(["a", "c"]), {
       batchSize: 1,
       receivedAt: T0,
@@ -256,12 +237,12 @@ describe("ingestBatch", () => {
       "the database is full: 1 event was committed before the failure (0 applied), the batch in progress was not stored",
     );
     // A rejected event in an earlier batch counts too; the failure inside the replay is restated.
-    const mixed = failing(store, new Set(["r"]), coded("STORE_TOO_LARGE"));
+    const mixed = failingInserts(store, new Set(["r"]), coded("STORE_TOO_LARGE"));
     const both = new Proxy(mixed, {
       get(target, prop, receiver) {
         if (prop === "transaction") {
           return <T>(fn: (tx: StoreTx) => Promise<T>) =>
-            failing(target, new Set(["z"]), coded("STORE_FULL")).transaction(fn);
+            failingInserts(target, new Set(["z"]), coded("STORE_FULL")).transaction(fn);
         }
         const value = Reflect.get(target, prop, receiver);
         return typeof value === "function" ? value.bind(target) : value;
@@ -281,7 +262,7 @@ describe("ingestBatch", () => {
   it("other transient codes are thrown unchanged", async () => {
     const store = await seeded();
     const injected = new PlumblineError("STORE_LOCKED", "injected lock");
-    const locked = failing(store, new Set(["b"]), () => injected);
+    const locked = failingInserts(store, new Set(["b"]), () => injected);
     const error = await ingestBatch(locked, deliveries(["a", "b"]), {
       batchSize: 1,
       receivedAt: T0,
@@ -319,7 +300,7 @@ describe("delivery keys: their owner and their time", () => {
 
   it("a batch stamps its deliveries with receivedAt, also when it is replayed one by one", async () => {
     const store = await seeded();
-    const flaky = failing(store, new Set(["bad"]), coded("STORE_TOO_LARGE"));
+    const flaky = failingInserts(store, new Set(["bad"]), coded("STORE_TOO_LARGE"));
     await ingestBatch(store, deliveries(["a", "b"]), { receivedAt: T0 + 5 });
     await ingestBatch(flaky, deliveries(["c", "bad", "d"]), { receivedAt: T0 + 5 });
     // Everything was received at T0 + 5: a cutoff just after takes every key (2 consents too).

@@ -16,10 +16,11 @@ import type { ChatEvent } from "../../src/domain/events.js";
 import { DEFAULT_SETTINGS } from "../../src/domain/settings.js";
 import { leave } from "../../src/ingest/erase.js";
 import { type Delivery, ingest, ingestBatch } from "../../src/ingest/ingest.js";
-import type { Store, StoreTx } from "../../src/ports/store.js";
+import type { Store } from "../../src/ports/store.js";
 import type { OpenStoreOptions } from "../../src/store/open-store.js";
 import { SqlStore } from "../../src/store/sql-store.js";
 import { randomDeliveries } from "../ingest/random-events.js";
+import { failingInserts } from "./failing-store.js";
 import { expectedSnapshot } from "./store-contract.js";
 import { TEST_KEY } from "./test-key.js";
 
@@ -45,24 +46,7 @@ function rfc2104(secret: string, value: string): string {
 
 /** A store whose transactions fail for one message id, as a database limit would. */
 function failingFor(store: Store, id: string, code: "STORE_TOO_LARGE"): Store {
-  return new Proxy(store, {
-    get(target, prop, receiver) {
-      if (prop === "transaction") {
-        return <T>(fn: (tx: StoreTx) => Promise<T>) =>
-          target.transaction((tx) =>
-            fn({
-              ...tx,
-              insertMessage: async (channel, message) => {
-                if (message.id === id) throw new PlumblineError(code, "injected limit");
-                return tx.insertMessage(channel, message);
-              },
-            }),
-          );
-      }
-      const value = Reflect.get(target, prop, receiver);
-      return typeof value === "function" ? value.bind(target) : value;
-    },
-  });
+  return failingInserts(store, new Set([id]), () => new PlumblineError(code, "injected limit"));
 }
 
 export function safetyContract(name: string, makeTarget: () => Promise<SafetyTarget>): void {
